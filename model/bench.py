@@ -1,0 +1,225 @@
+"""What the model knows about a bench: gas, cathode, supply, gaps, chamber. SI, frozen.
+
+These are plain data. :mod:`strikeline.profiles` builds them from TOML files; the
+model never reads a file itself.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from dataclasses import dataclass, field
+
+from .paschen import TownsendConstants, UniformFieldLaw
+
+__all__ = [
+    "Bench",
+    "BenchCurve",
+    "Cathode",
+    "Chamber",
+    "Gas",
+    "NormalGlow",
+    "OperatingPoint",
+    "StrayGap",
+    "Supply",
+    "Yield",
+    "secondary_yield_estimate",
+]
+
+
+def secondary_yield_estimate(ionisation_energy: float, work_function: float) -> float:
+    """Clean-metal estimate of the ion-induced electron yield, gamma ~ 0.016 (E_iz - 2 phi).
+
+    Energies in eV; returns gamma (dimensionless), never below zero. Good for noble-gas
+    ions on clean metals at low energy; real, oxidised cathodes differ (Baragiola et al.,
+    Surf. Sci. 1979, from memory).
+
+    >>> round(secondary_yield_estimate(24.59, 4.55), 3)   # He+ on tungsten
+    0.248
+    """
+    return max(0.016 * (ionisation_energy - 2.0 * work_function), 0.0)
+
+
+@dataclass(frozen=True)
+class Gas:
+    """A working gas and the data the model uses for it."""
+
+    key: str
+    """Canonical name, e.g. "argon"."""
+    symbol: str
+    """Chemical symbol or short name, e.g. "Ar"."""
+    constants: TownsendConstants
+    law: UniformFieldLaw | None
+    """High-pd empirical law where one is known (air)."""
+    ionisation_energy: float
+    """First ionisation energy, eV."""
+    molar_mass: float
+    """kg/mol."""
+    ion_mobility: float
+    """Reduced mobility K0 of the gas's own ion at 273.15 K, 101325 Pa, m^2/(V s)."""
+    ion_mobility_source: str
+    electron_collision_per_Pa: float
+    """Electron momentum-transfer collision frequency per pressure, nu_m/p, 1/(s Pa)."""
+    noble: bool
+
+
+@dataclass(frozen=True)
+class Yield:
+    """A secondary-electron yield gamma with its plausible range and source."""
+
+    value: float
+    low: float
+    high: float
+    source: str
+
+
+@dataclass(frozen=True)
+class NormalGlow:
+    """Normal-glow data of one gas-cathode pair (SI)."""
+
+    cathode_fall: float
+    """Normal cathode fall V_n, V."""
+    current_density_per_p2: float | None
+    """j_n / p^2, A m^-2 Pa^-2 (None where not tabulated)."""
+    pd_n: float | None
+    """Normal cathode dark space times pressure, Pa m (None where not tabulated)."""
+    source: str
+
+
+@dataclass(frozen=True)
+class Cathode:
+    """A cathode material."""
+
+    key: str
+    symbol: str
+    work_function: float
+    """eV."""
+    default_yield: Yield
+    yields: Mapping[str, Yield] = field(default_factory=dict)
+    """Measured or published gamma by gas key."""
+    normal_glow: Mapping[str, NormalGlow] = field(default_factory=dict)
+    """Normal-glow data by gas key."""
+    note: str = ""
+
+    def yield_for(self, gas: Gas) -> Yield:
+        """gamma for ``gas``: a listed value, else the noble-gas estimate, else the default."""
+        if gas.key in self.yields:
+            return self.yields[gas.key]
+        if gas.noble:
+            g = secondary_yield_estimate(gas.ionisation_energy, self.work_function)
+            if g > 0:
+                return Yield(
+                    g,
+                    0.3 * g,
+                    1.5 * g,
+                    f"clean-metal estimate 0.016 (E_iz - 2 phi) = 0.016 ({gas.ionisation_energy:g} - "
+                    f"2 x {self.work_function:g}) eV (Baragiola et al. 1979, from memory)",
+                )
+        return self.default_yield
+
+
+@dataclass(frozen=True)
+class Supply:
+    """The high-voltage supply as the forecast sees it (it never drives it)."""
+
+    open_circuit_voltage: float
+    """V."""
+    current_limit: float | None = None
+    """A; None where the supply has no limit worth the name."""
+    ballast: float = 0.0
+    """Series (ballast) resistance between supply and cathode, ohm."""
+    mode: str = "dc"
+    """"dc" or "pulsed"."""
+    frequency: float | None = None
+    """Pulse repetition frequency, Hz (pulsed only)."""
+    off_time: float | None = None
+    """Time between pulses with the voltage off, s (pulsed only)."""
+
+
+@dataclass(frozen=True)
+class StrayGap:
+    """A gap at cathode potential other than the main one (shield, feedthrough, clamp)."""
+
+    name: str
+    length: float
+    """m."""
+
+
+@dataclass(frozen=True)
+class Chamber:
+    """The plasma volume as a finite cylinder, for diffusion loss."""
+
+    radius: float
+    """m."""
+    length: float
+    """m."""
+
+
+@dataclass(frozen=True)
+class BenchCurve:
+    """A breakdown curve fitted to this bench's recorded strikes."""
+
+    A: float
+    """1/(Pa m), same density convention as the gas's constants."""
+    B: float
+    """V/(Pa m)."""
+    gamma: float
+    A_sigma: float
+    B_sigma: float
+    gamma_sigma: float
+    covariance: tuple[tuple[float, float, float], ...]
+    """Covariance of (ln A, ln B, ln gamma)."""
+    rms_residual: float
+    """RMS of the fit residuals, V."""
+    n_points: int
+    pd_low: float
+    """Smallest reduced pd among the fitted points, Pa m."""
+    pd_high: float
+    gas: str
+    cathode: str
+    fitted_on: str
+    """ISO date of the fit."""
+
+
+@dataclass(frozen=True)
+class Bench:
+    """One bench: its gas, cathode, gaps, supply and chamber."""
+
+    name: str
+    gas: Gas
+    cathode: Cathode
+    gap: float
+    """Main electrode gap, m."""
+    gas_temperature: float = 293.15
+    """K."""
+    gamma: float | None = None
+    """Override of the cathode's gamma for this gas (None: use the cathode data)."""
+    supply: Supply | None = None
+    cathode_area: float | None = None
+    """m^2."""
+    magnetic_field: float | None = None
+    """Field at the cathode surface, T (magnetron); None for an unmagnetised cathode."""
+    stray_gaps: tuple[StrayGap, ...] = ()
+    chamber: Chamber | None = None
+    curve: BenchCurve | None = None
+    pressure: float | None = None
+    """A starting pressure (Pa) for manual use, None if the profile gives none."""
+
+    def yield_(self) -> Yield:
+        """The gamma in force: the bench override, else the cathode's for this gas."""
+        if self.gamma is not None:
+            return Yield(self.gamma, self.gamma, self.gamma, "bench profile")
+        return self.cathode.yield_for(self.gas)
+
+
+@dataclass(frozen=True)
+class OperatingPoint:
+    """Where the bench sits: true (gas-corrected) pressure, gap and applied voltage."""
+
+    pressure: float
+    """Pa."""
+    gap: float
+    """m."""
+    voltage: float | None = None
+    """Applied or available voltage, V (None: breakdown only)."""
+    gas_temperature: float = 293.15
+    """K."""

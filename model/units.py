@@ -1,0 +1,247 @@
+"""Parse and format physical quantities at the edges; everything inside is SI.
+
+Unit factors come from :mod:`scipy.constants` so that they match the CODATA/SI values
+exactly. Only the edges of the program (command line, screen, profiles, drivers) call
+into this module; the formulas elsewhere in :mod:`strikeline.model` take plain SI floats
+and numpy arrays.
+
+>>> round(parse("2.5 mTorr", "pressure"), 6)
+0.333306
+>>> parse("40mm", "length")
+0.04
+>>> format_value(0.3333, "pressure", "mTorr")
+'2.50 mTorr'
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass
+
+from scipy import constants as _c
+
+__all__ = [
+    "KINDS",
+    "QuantityError",
+    "convert",
+    "format_value",
+    "parse",
+    "parse_pd",
+    "units_of",
+]
+
+
+class QuantityError(ValueError):
+    """A value the user gave cannot be read as the quantity asked for.
+
+    The message is one line that names the bad value and the accepted form.
+    """
+
+
+@dataclass(frozen=True)
+class _Kind:
+    name: str
+    si: str
+    factors: dict[str, float]
+    example: str
+    positive: bool = True
+
+
+_TORR = _c.torr
+_KINDS: dict[str, _Kind] = {
+    "pressure": _Kind(
+        "pressure",
+        "Pa",
+        {
+            "Pa": 1.0,
+            "hPa": 100.0,
+            "kPa": _c.kilo,
+            "mbar": _c.bar * _c.milli,
+            "ubar": _c.bar * _c.micro,
+            "µbar": _c.bar * _c.micro,
+            "bar": _c.bar,
+            "Torr": _TORR,
+            "mTorr": _TORR * _c.milli,
+            "mmHg": _c.mmHg,
+            "atm": _c.atm,
+            "psi": _c.psi,
+        },
+        '"0.5 Pa", "2.5 mTorr", "5e-3 mbar"',
+    ),
+    "length": _Kind(
+        "length",
+        "m",
+        {
+            "m": 1.0,
+            "cm": _c.centi,
+            "mm": _c.milli,
+            "um": _c.micro,
+            "µm": _c.micro,
+            "in": _c.inch,
+        },
+        '"40mm", "4 cm", "0.04 m"',
+    ),
+    "voltage": _Kind("voltage", "V", {"V": 1.0, "kV": _c.kilo, "mV": _c.milli}, '"600V", "1.2 kV"'),
+    "current": _Kind(
+        "current",
+        "A",
+        {"A": 1.0, "mA": _c.milli, "uA": _c.micro, "µA": _c.micro},
+        '"50 mA", "0.2 A"',
+    ),
+    "resistance": _Kind(
+        "resistance",
+        "ohm",
+        {"ohm": 1.0, "Ω": 1.0, "kohm": _c.kilo, "kΩ": _c.kilo, "Mohm": _c.mega, "MΩ": _c.mega},
+        '"10 kohm", "1 Mohm", "470 ohm"',
+    ),
+    "temperature": _Kind("temperature", "K", {"K": 1.0}, '"293 K"'),
+    "field": _Kind("field", "T", {"T": 1.0, "mT": _c.milli, "G": 1e-4, "gauss": 1e-4}, '"30 mT", "300 G"'),
+    "frequency": _Kind("frequency", "Hz", {"Hz": 1.0, "kHz": _c.kilo, "MHz": _c.mega}, '"20 kHz"'),
+    "time": _Kind(
+        "time",
+        "s",
+        {"s": 1.0, "ms": _c.milli, "us": _c.micro, "µs": _c.micro, "ns": _c.nano, "min": 60.0},
+        '"5 us", "2 ms", "10 s"',
+    ),
+    "area": _Kind("area", "m2", {"m2": 1.0, "cm2": _c.centi**2, "mm2": _c.milli**2}, '"20 cm2", "0.002 m2"'),
+}
+KINDS: tuple[str, ...] = tuple(_KINDS)
+
+# "<number><optional space><unit>"; the number accepts 1, 1.5, .5, 1e-3, 1.5E+2.
+_QUANTITY = re.compile(
+    r"^\s*(?P<num>[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*(?P<unit>[^\s\d.+-][^\s]*(?:\s+[^\s]+)?)?\s*$"
+)
+_TEMPERATURE_C = {"C", "°C", "degC"}
+
+
+def units_of(kind: str) -> tuple[str, ...]:
+    """The unit names accepted for ``kind``, SI unit first."""
+    k = _KINDS[kind]
+    return (k.si, *[u for u in k.factors if u != k.si])
+
+
+def _lookup(kind: _Kind, unit: str) -> float | None:
+    if unit in kind.factors:
+        return kind.factors[unit]
+    # Case is forgiven ("torr", "PA", "mtorr") except on a leading m/M, where it is the
+    # difference between milli and mega.
+    folded = [u for u in kind.factors if u.casefold() == unit.casefold() and not (u[0] in "mM" and u[0] != unit[0])]
+    if len(folded) == 1:
+        return kind.factors[folded[0]]
+    return None
+
+
+def _accepted(kind: _Kind) -> str:
+    return f"a number and one of {', '.join(units_of(kind.name))} (e.g. {kind.example})"
+
+
+def parse(text: str | float | int, kind: str, *, name: str | None = None, allow_zero: bool = False) -> float:
+    """Read ``text`` as a ``kind`` quantity and return it in SI units.
+
+    ``kind`` is one of :data:`KINDS`. A unit is always required, so that "5" is never
+    silently taken as 5 Pa when the user meant 5 mTorr. Temperatures also accept
+    degrees Celsius ("20 C"). The result is finite and positive (or zero where
+    ``allow_zero``, e.g. a ballast resistor that is not fitted), or
+    :class:`QuantityError` is raised with a one-line message naming ``name`` (the
+    option or field) and the accepted form.
+
+    >>> parse("1 Torr", "pressure") == 101325 / 760
+    True
+    >>> parse("20 C", "temperature")
+    293.15
+    """
+    k = _KINDS[kind]
+    label = name or kind
+    if isinstance(text, bool) or not isinstance(text, str):
+        raise QuantityError(f"{label} {text!r}: needs a unit; give {_accepted(k)}")
+    m = _QUANTITY.match(text)
+    if m is None:
+        raise QuantityError(f"{label} {text!r}: not a quantity; give {_accepted(k)}")
+    number = float(m["num"])
+    unit = m["unit"]
+    if unit is None:
+        raise QuantityError(f"{label} {text!r}: needs a unit; give {_accepted(k)}")
+    unit = unit.strip()
+    if kind == "temperature" and unit in _TEMPERATURE_C:
+        value = number + _c.zero_Celsius
+    else:
+        factor = _lookup(k, unit)
+        if factor is None:
+            raise QuantityError(f"{label} {text!r}: unknown unit {unit!r}; give {_accepted(k)}")
+        value = number * factor
+    if not math.isfinite(value):
+        raise QuantityError(f"{label} {text!r}: not a finite number; give {_accepted(k)}")
+    if k.positive and (value < 0 or (value == 0 and not allow_zero)):
+        floor = "zero or more" if allow_zero else "above zero"
+        raise QuantityError(f"{label} {text!r}: must be {floor}; give {_accepted(k)}")
+    return value
+
+
+def parse_pd(text: str, *, name: str | None = None) -> float:
+    """Read a pressure-times-length product such as "0.5 Torr cm" and return Pa m.
+
+    The unit is a pressure unit and a length unit separated by a space, "*" or "·".
+
+    >>> round(parse_pd("1 Torr cm"), 6)
+    1.333224
+    """
+    label = name or "pd"
+    example = 'a number, a pressure unit and a length unit (e.g. "0.5 Torr cm", "0.1 Pa m")'
+    if not isinstance(text, str):
+        raise QuantityError(f"{label} {text!r}: needs units; give {example}")
+    m = re.match(
+        r"^\s*(?P<num>[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*(?P<p>[^\s*·]+)\s*[\s*·]\s*(?P<l>[^\s*·]+)\s*$",
+        text,
+    )
+    if m is None:
+        raise QuantityError(f"{label} {text!r}: not a pd value; give {example}")
+    fp = _lookup(_KINDS["pressure"], m["p"])
+    fl = _lookup(_KINDS["length"], m["l"])
+    if fp is None or fl is None:
+        bad = m["p"] if fp is None else m["l"]
+        raise QuantityError(f"{label} {text!r}: unknown unit {bad!r}; give {example}")
+    value = float(m["num"]) * fp * fl
+    if not math.isfinite(value) or value <= 0:
+        raise QuantityError(f"{label} {text!r}: must be a finite value above zero; give {example}")
+    return value
+
+
+def convert(value_si: float, kind: str, unit: str) -> float:
+    """Express an SI value in ``unit`` (a unit of ``kind``).
+
+    >>> convert(133.32236842105263, "pressure", "Torr")
+    1.0
+    """
+    k = _KINDS[kind]
+    factor = _lookup(k, unit)
+    if factor is None:
+        raise QuantityError(f"unit {unit!r}: not a {kind} unit; use one of {', '.join(units_of(kind))}")
+    return value_si / factor
+
+
+def format_value(value_si: float | None, kind: str, unit: str, digits: int = 3) -> str:
+    """Format an SI value in ``unit`` with ``digits`` significant figures.
+
+    ``None`` and non-finite values format as "none" so that a missing result is never
+    shown as a number.
+
+    >>> format_value(0.04, "length", "mm")
+    '40.0 mm'
+    >>> format_value(None, "voltage", "V")
+    'none'
+    """
+    if value_si is None or not math.isfinite(value_si):
+        return "none"
+    return f"{_sig(convert(value_si, kind, unit), digits)} {unit}"
+
+
+def _sig(x: float, digits: int) -> str:
+    """``x`` with ``digits`` significant figures, plain notation from 1e-3 to 1e6."""
+    if x == 0:
+        return "0"
+    mag = math.floor(math.log10(abs(x)))
+    if -3 <= mag < 6:
+        decimals = max(digits - 1 - mag, 0)
+        return f"{x:.{decimals}f}"
+    return f"{x:.{digits - 1}e}"
