@@ -1,0 +1,1 @@
+"""Gas, cathode and bench data (TOML) and their typed, validating loader."""

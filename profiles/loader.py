@@ -1,0 +1,411 @@
+"""Load and validate gas, cathode and bench profiles (TOML) into the model's types.
+
+Every problem raises :class:`ProfileError` with one line naming the file, the field and
+the accepted form or range. Quantities in profiles carry their units as text
+("40 mm", "1.5 kV"), read by :mod:`strikeline.model.units`. Nothing in a profile is
+evaluated as code.
+"""
+
+from __future__ import annotations
+
+import math
+import os
+import tomllib
+from collections.abc import Iterable, Mapping
+from dataclasses import dataclass, field
+from functools import cache
+from importlib import resources
+from pathlib import Path
+from typing import Any
+
+from scipy import constants as _c
+
+from ..model import units
+from ..model.bench import (
+    Bench,
+    Cathode,
+    Chamber,
+    Gas,
+    NormalGlow,
+    StrayGap,
+    Supply,
+    Yield,
+)
+from ..model.paschen import TownsendConstants, UniformFieldLaw
+
+__all__ = [
+    "BUILTIN_BENCHES",
+    "BenchProfile",
+    "ProfileError",
+    "cathodes",
+    "find_cathode",
+    "find_gas",
+    "gases",
+    "load_bench",
+    "unsupported_gases",
+]
+
+# 1/(cm Torr) -> 1/(Pa m) and V/(cm Torr) -> V/(Pa m)
+PER_CM_TORR = 1.0 / (_c.centi * _c.torr)
+BUILTIN_BENCHES = ("demo", "demo-magnetron")
+
+
+class ProfileError(ValueError):
+    """A profile (or a gas/cathode name) is not acceptable; the message is one line."""
+
+
+def _key(name: str) -> str:
+    return " ".join(name.replace("_", " ").replace("-", " ").split()).casefold()
+
+
+class _Table:
+    """Typed access to one TOML table, with errors that name file and field."""
+
+    def __init__(self, file: str, where: str, data: Any):
+        self.file, self.where = file, where
+        if not isinstance(data, dict):
+            raise ProfileError(f"{file}: [{where}] must be a table of fields, not {type(data).__name__}")
+        self.data: dict[str, Any] = data
+
+    def fail(self, key: str, problem: str) -> ProfileError:
+        return ProfileError(f"{self.file}: [{self.where}] {key}: {problem}")
+
+    def only(self, allowed: Iterable[str]) -> None:
+        allowed = tuple(allowed)
+        for key in self.data:
+            if key not in allowed:
+                raise self.fail(key, f"unknown field; accepted fields are {', '.join(allowed)}")
+
+    def has(self, key: str) -> bool:
+        return key in self.data
+
+    def string(self, key: str, *, default: str | None = None, choices: tuple[str, ...] = ()) -> str:
+        if key not in self.data:
+            if default is None:
+                raise self.fail(key, "missing; it is required")
+            return default
+        v = self.data[key]
+        if not isinstance(v, str) or not v.strip():
+            raise self.fail(key, f"{v!r} is not a non-empty text")
+        if choices and v.strip().casefold() not in choices:
+            raise self.fail(key, f"{v!r} is not one of {', '.join(choices)}")
+        return v.strip()
+
+    def number(
+        self, key: str, lo: float, hi: float, *, default: float | None = None, required: bool = True
+    ) -> float | None:
+        if key not in self.data:
+            if default is None and required:
+                raise self.fail(key, f"missing; give a number from {lo:g} to {hi:g}")
+            return default
+        v = self.data[key]
+        if isinstance(v, bool) or not isinstance(v, int | float) or not math.isfinite(v) or not lo <= v <= hi:
+            raise self.fail(key, f"{v!r} is not a number from {lo:g} to {hi:g}")
+        return float(v)
+
+    def pair(self, key: str, lo: float, hi: float) -> tuple[float, float]:
+        v = self.data.get(key)
+        ok = (
+            isinstance(v, list)
+            and len(v) == 2
+            and all(isinstance(x, int | float) and not isinstance(x, bool) for x in v)
+            and all(math.isfinite(x) and lo <= x <= hi for x in v)
+            and v[0] < v[1]
+        )
+        if not ok:
+            raise self.fail(key, f"{v!r} is not [low, high] with {lo:g} <= low < high <= {hi:g}")
+        return float(v[0]), float(v[1])
+
+    def quantity(
+        self,
+        key: str,
+        kind: str,
+        lo: float,
+        hi: float,
+        *,
+        required: bool = True,
+        allow_zero: bool = False,
+    ) -> float | None:
+        if key not in self.data:
+            if required:
+                raise self.fail(key, f"missing; give {kind} with its unit, e.g. {_example(kind, lo, hi)}")
+            return None
+        v = self.data[key]
+        try:
+            value = units.parse(v, kind, name=key, allow_zero=allow_zero)
+        except units.QuantityError as e:
+            raise ProfileError(f"{self.file}: [{self.where}] {e}") from None
+        if not lo <= value <= hi:
+            si = units.units_of(kind)[0]
+            raise self.fail(key, f"{v!r} is outside the accepted range {lo:g} to {hi:g} {si}")
+        return value
+
+    def sub(self, key: str) -> _Table | None:
+        if key not in self.data:
+            return None
+        return _Table(self.file, f"{self.where}.{key}" if self.where else key, self.data[key])
+
+
+def _example(kind: str, lo: float, hi: float) -> str:
+    si = units.units_of(kind)[0]
+    return f'"{math.sqrt(lo * hi) if lo > 0 else hi / 10:.3g} {si}"'
+
+
+def _read_toml(text: str, file: str) -> dict[str, Any]:
+    try:
+        return tomllib.loads(text)
+    except tomllib.TOMLDecodeError as e:
+        raise ProfileError(f"{file}: not valid TOML: {str(e).splitlines()[0]}") from None
+
+
+def _data_text(name: str) -> str:
+    return resources.files("strikeline.profiles").joinpath("data", name).read_text(encoding="utf-8")
+
+
+@cache
+def _gas_tables() -> tuple[dict[str, Gas], dict[str, str], dict[str, str]]:
+    """(gases by key, key by any accepted name, reason by any name of an unsupported gas)."""
+    file = "gases.toml"
+    raw = _read_toml(_data_text(file), file)
+    out: dict[str, Gas] = {}
+    names: dict[str, str] = {}
+    unsupported: dict[str, str] = {}
+    for key, data in raw.items():
+        t = _Table(file, key, data)
+        aliases = (key, t.string("symbol"), *data.get("aliases", ()))
+        if t.has("unsupported"):
+            for alias in aliases:
+                unsupported[_key(alias)] = t.string("unsupported")
+            continue
+        for alias in aliases:
+            names[_key(alias)] = key
+        law = None
+        if (lt := t.sub("uniform_field_law")) is not None:
+            law = UniformFieldLaw(
+                a=lt.number("a_kV_per_cm", 0, 1e3) * _c.kilo / _c.centi,
+                b=lt.number("b_kV_per_sqrt_cm", 0, 1e3) * _c.kilo / math.sqrt(_c.centi),
+                reference_pressure=lt.number("reference_pressure_Torr", 1, 1e4) * _c.torr,
+                reference_temperature=lt.number("reference_temperature_K", 1, 1e4),
+                blend_from=lt.number("blend_from_cm", 0, 1e3) * _c.centi,
+                blend_to=lt.number("blend_to_cm", 0, 1e3) * _c.centi,
+                valid_to=lt.number("valid_to_cm", 0, 1e3) * _c.centi,
+                source=lt.string("source"),
+            )
+        lo, hi = t.pair("E_over_p_V_per_cm_Torr", 0, 1e5)
+        constants = TownsendConstants(
+            A=t.number("A_per_cm_Torr", 0.01, 1e3) * PER_CM_TORR,
+            B=t.number("B_V_per_cm_Torr", 1, 1e4) * PER_CM_TORR,
+            E_over_p_low=lo * PER_CM_TORR,
+            E_over_p_high=hi * PER_CM_TORR,
+            reference_temperature=t.number("reference_temperature_K", 1, 1e4),
+            source=t.string("source"),
+        )
+        out[key] = Gas(
+            key=key,
+            symbol=t.string("symbol"),
+            constants=constants,
+            law=law,
+            ionisation_energy=t.number("ionisation_energy_eV", 1, 100),
+            molar_mass=t.number("molar_mass_g_per_mol", 1, 1000) * 1e-3,
+            ion_mobility=t.number("ion_mobility_cm2_per_V_s", 0.01, 100) * _c.centi**2,
+            ion_mobility_source=t.string("ion_mobility_source"),
+            electron_collision_per_Pa=t.number("electron_collision_per_s_Torr", 1e6, 1e12) / _c.torr,
+            noble=bool(t.data.get("noble", False)),
+        )
+    return out, names, unsupported
+
+
+def gases() -> dict[str, Gas]:
+    """All supported gases by canonical key."""
+    return dict(_gas_tables()[0])
+
+
+def unsupported_gases() -> dict[str, str]:
+    """Names of gases listed but not supported by this law, with the reason."""
+    return dict(_gas_tables()[2])
+
+
+def find_gas(name: str) -> Gas:
+    """The gas called ``name`` (name, symbol or alias, any case), or a one-line error."""
+    table, names, unsupported = _gas_tables()
+    k = _key(name)
+    if k in names:
+        return table[names[k]]
+    if k in unsupported:
+        raise ProfileError(f"gas {name!r} is not supported: {unsupported[k]}")
+    known = ", ".join(f"{g.symbol} ({g.key})" if g.symbol.casefold() != g.key else g.key for g in table.values())
+    raise ProfileError(f"gas {name!r}: unknown; use one of {known}")
+
+
+@cache
+def _cathode_tables() -> tuple[dict[str, Cathode], dict[str, str]]:
+    file = "cathodes.toml"
+    raw = _read_toml(_data_text(file), file)
+    gas_names = _gas_tables()[1]
+    out: dict[str, Cathode] = {}
+    names: dict[str, str] = {}
+    for key, data in raw.items():
+        t = _Table(file, key, data)
+        lo, hi = t.pair("gamma_range", 1e-6, 1)
+        default = Yield(t.number("gamma_default", 1e-6, 1), lo, hi, t.string("gamma_source"))
+        yields: dict[str, Yield] = {}
+        if (gt := t.sub("gamma")) is not None:
+            for gas_key in gt.data:
+                y = gt.sub(gas_key)
+                ylo, yhi = y.pair("range", 1e-6, 1)
+                yields[_gas_ref(gas_key, gas_names, y)] = Yield(
+                    y.number("value", 1e-6, 1), ylo, yhi, y.string("source")
+                )
+        glows: dict[str, NormalGlow] = {}
+        if (nt := t.sub("normal_glow")) is not None:
+            for gas_key in nt.data:
+                g = nt.sub(gas_key)
+                j = g.number("j_per_p2_uA_per_cm2_Torr2", 1e-3, 1e5, required=False)
+                pdn = g.number("pd_Torr_cm", 1e-3, 100, required=False)
+                glows[_gas_ref(gas_key, gas_names, g)] = NormalGlow(
+                    cathode_fall=g.number("cathode_fall_V", 10, 2000),
+                    current_density_per_p2=None if j is None else j * 1e-6 / _c.centi**2 / _c.torr**2,
+                    pd_n=None if pdn is None else pdn * _c.torr * _c.centi,
+                    source=g.string("source"),
+                )
+        out[key] = Cathode(
+            key=key,
+            symbol=t.string("symbol"),
+            work_function=t.number("work_function_eV", 1, 10),
+            default_yield=default,
+            yields=yields,
+            normal_glow=glows,
+            note=t.string("note", default="") if t.has("note") else "",
+        )
+        for alias in (key, data["symbol"], *data.get("aliases", ())):
+            names[_key(alias)] = key
+    return out, names
+
+
+def _gas_ref(name: str, gas_names: Mapping[str, str], t: _Table) -> str:
+    k = _key(name)
+    if k not in gas_names:
+        raise ProfileError(f"{t.file}: [{t.where}]: {name!r} is not a known gas")
+    return gas_names[k]
+
+
+def cathodes() -> dict[str, Cathode]:
+    """All cathode materials by canonical key."""
+    return dict(_cathode_tables()[0])
+
+
+def find_cathode(name: str) -> Cathode:
+    """The cathode called ``name`` (name, symbol or alias, any case), or a one-line error."""
+    table, names = _cathode_tables()
+    k = _key(name)
+    if k in names:
+        return table[names[k]]
+    known = ", ".join(f"{c.symbol} ({c.key})" for c in table.values())
+    raise ProfileError(f"cathode {name!r}: unknown; use one of {known}")
+
+
+@dataclass(frozen=True)
+class BenchProfile:
+    """A loaded bench file: the model's :class:`Bench` plus where it came from."""
+
+    bench: Bench
+    path: Path | None
+    """The file, or None for a built-in bench."""
+    label: str
+    """How to name it to the user ("demo" or the path)."""
+    description: str = ""
+    raw: Mapping[str, Any] = field(default_factory=dict)
+    """The parsed TOML, kept so that a save can write the file back whole."""
+
+
+_BENCH_FIELDS = (
+    "name",
+    "description",
+    "gas",
+    "cathode",
+    "gap",
+    "gas_temperature",
+    "gamma",
+    "pressure",
+    "cathode_area",
+    "magnetic_field",
+)
+_SECTIONS = ("bench", "supply", "stray_gap", "chamber")
+
+
+def load_bench(ref: str | os.PathLike[str]) -> BenchProfile:
+    """Load a bench file, or a built-in bench by name ("demo", "demo-magnetron")."""
+    ref_s = os.fspath(ref)
+    if ref_s in BUILTIN_BENCHES:
+        text = resources.files("strikeline.profiles").joinpath("benches", f"{ref_s}.toml").read_text("utf-8")
+        return parse_bench(text, ref_s, None)
+    path = Path(ref_s).expanduser()
+    try:
+        text = path.read_text(encoding="utf-8")
+    except FileNotFoundError:
+        raise ProfileError(
+            f"bench {ref_s!r}: no such file; give a bench profile (.toml) or one of {', '.join(BUILTIN_BENCHES)}"
+        ) from None
+    except (OSError, UnicodeDecodeError) as e:
+        raise ProfileError(f"bench {ref_s!r}: cannot be read ({e.__class__.__name__}: {e})") from None
+    return parse_bench(text, str(path), path)
+
+
+def parse_bench(text: str, label: str, path: Path | None) -> BenchProfile:
+    """Validate bench TOML text (``label`` names it in errors)."""
+    raw = _read_toml(text, label)
+    top = _Table(label, "", raw)
+    top.only(_SECTIONS)
+    b = top.sub("bench")
+    if b is None:
+        raise ProfileError(f"{label}: [bench] missing; it holds gas, cathode and gap")
+    b.only(_BENCH_FIELDS)
+    try:
+        gas = find_gas(b.string("gas"))
+        cathode = find_cathode(b.string("cathode"))
+    except ProfileError as e:
+        raise ProfileError(f"{label}: [bench] {e}") from None
+    supply = None
+    if (s := top.sub("supply")) is not None:
+        s.only(("open_circuit_voltage", "current_limit", "ballast", "mode", "frequency", "off_time"))
+        mode = s.string("mode", default="dc", choices=("dc", "pulsed")).casefold()
+        freq = s.quantity("frequency", "frequency", 1.0, 1e8, required=mode == "pulsed")
+        off = s.quantity("off_time", "time", 1e-9, 10.0, required=mode == "pulsed")
+        if mode == "pulsed" and off >= 1.0 / freq:
+            raise s.fail("off_time", f"{s.data['off_time']!r} is not shorter than one period (1/frequency)")
+        supply = Supply(
+            open_circuit_voltage=s.quantity("open_circuit_voltage", "voltage", 1.0, 1e6),
+            current_limit=s.quantity("current_limit", "current", 1e-9, 1e4, required=False),
+            ballast=s.quantity("ballast", "resistance", 0.0, 1e10, required=False, allow_zero=True) or 0.0,
+            mode=mode,
+            frequency=freq if mode == "pulsed" else None,
+            off_time=off if mode == "pulsed" else None,
+        )
+    stray: list[StrayGap] = []
+    if "stray_gap" in raw:
+        items = raw["stray_gap"]
+        if not isinstance(items, list):
+            raise ProfileError(f"{label}: [[stray_gap]] must be a list of tables ([[stray_gap]] blocks)")
+        for i, item in enumerate(items, 1):
+            g = _Table(label, f"stray_gap #{i}", item)
+            g.only(("name", "length"))
+            stray.append(StrayGap(g.string("name"), g.quantity("length", "length", 1e-6, 10.0)))
+    chamber = None
+    if (c := top.sub("chamber")) is not None:
+        c.only(("radius", "length"))
+        chamber = Chamber(c.quantity("radius", "length", 1e-3, 10.0), c.quantity("length", "length", 1e-3, 10.0))
+    bench = Bench(
+        name=b.string("name", default=path.stem if path else label),
+        gas=gas,
+        cathode=cathode,
+        gap=b.quantity("gap", "length", 1e-6, 10.0),
+        gas_temperature=b.quantity("gas_temperature", "temperature", 20.0, 3000.0, required=False) or 293.15,
+        gamma=b.number("gamma", 1e-6, 1.0, required=False),
+        supply=supply,
+        cathode_area=b.quantity("cathode_area", "area", 1e-8, 10.0, required=False),
+        magnetic_field=b.quantity("magnetic_field", "field", 1e-6, 10.0, required=False),
+        stray_gaps=tuple(stray),
+        chamber=chamber,
+        pressure=b.quantity("pressure", "pressure", 1e-6, 1e6, required=False),
+    )
+    return BenchProfile(bench, path, label, b.string("description", default="") if b.has("description") else "", raw)
