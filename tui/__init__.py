@@ -1,0 +1,1 @@
+"""The terminal side: the ``strikeline`` command line and the live Textual screen."""

@@ -1,0 +1,327 @@
+"""The ``strikeline`` command line.
+
+Every verb prints readable text by default and JSON with ``--json``. A bad value ends
+with one line on stderr naming the value and the accepted form, and exit status 2; an
+unexpected failure prints one line and leaves the traceback in the log file.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import logging
+import sys
+from collections.abc import Sequence
+from dataclasses import replace
+from pathlib import Path
+
+from ..model import units
+from ..model.units import QuantityError
+from ..profiles.loader import ProfileError
+
+log = logging.getLogger("strikeline")
+
+SAFETY = (
+    "High voltage can kill. strikeline is advisory: it reads instruments and controls nothing. "
+    "Keep the interlocks working, discharge and ground the supply before touching the chamber, "
+    "work one-handed near live parts, and follow local codes, your lab's safety officer and "
+    "licensed practice first."
+)
+
+
+class UsageError(Exception):
+    """A bad command line; the message is the one line shown to the user."""
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message: str):  # one line, never the usage block
+        raise UsageError(f"{self.prog}: {message} (see {self.prog} --help)")
+
+
+def _quantity(kind: str):
+    def read(text: str) -> float:
+        try:
+            return units.parse(text, kind)
+        except QuantityError as e:  # argparse shows ArgumentTypeError text as it is
+            raise argparse.ArgumentTypeError(str(e)) from None
+
+    read.__name__ = kind
+    return read
+
+
+def build_parser() -> argparse.ArgumentParser:
+    p = _Parser(
+        prog="strikeline",
+        description=(
+            "Where a glow-discharge or DC sputter bench sits on its gas's breakdown (Paschen) curve, "
+            "whether the supply can strike it, and what risks come with that operating point. "
+            "Quantities take units: --pressure '0.5 Pa', --gap 40mm, --voltage 600V."
+        ),
+        epilog=SAFETY,
+    )
+    sub = p.add_subparsers(dest="verb", metavar="VERB", parser_class=_Parser)
+
+    def common_point(s: argparse.ArgumentParser) -> None:
+        s.add_argument("--bench", metavar="FILE", help="bench profile (.toml), or 'demo' / 'demo-magnetron'")
+        s.add_argument("--gas", help="gas name or symbol, e.g. argon, Ar, N2, air (default: the bench's)")
+        s.add_argument("--cathode", help="cathode metal, e.g. Cu, Al, stainless (default: the bench's)")
+        s.add_argument("--gamma", type=float, help="secondary-electron yield to use instead of the cathode data")
+        s.add_argument(
+            "--temperature",
+            type=_quantity("temperature"),
+            metavar="T",
+            help="gas temperature, e.g. '300 K' or '20 C'",
+        )
+
+    s = sub.add_parser(
+        "strike",
+        help="forecast one operating point",
+        description="Forecast one operating point.",
+        epilog=SAFETY,
+    )
+    common_point(s)
+    s.add_argument(
+        "--pressure",
+        type=_quantity("pressure"),
+        metavar="P",
+        help="true gas pressure, e.g. '0.5 Pa', '20 mTorr'",
+    )
+    s.add_argument(
+        "--gap", type=_quantity("length"), metavar="D", help="electrode gap, e.g. 40mm (default: the bench's)"
+    )
+    s.add_argument(
+        "--voltage",
+        type=_quantity("voltage"),
+        metavar="V",
+        help="applied voltage, e.g. 600V (default: the bench supply's)",
+    )
+    s.add_argument("--units", choices=("SI", "mbar", "Torr"), default="SI", help="units of the text output")
+    s.add_argument("--json", action="store_true", help="print the forecast as JSON (SI units)")
+
+    c = sub.add_parser(
+        "curve",
+        help="the breakdown curve as CSV",
+        description=(
+            "Print the breakdown curve as CSV. With --gap, --from/--to are pressures; without it they are pd "
+            "values such as '0.1 Torr cm'. Default: two decades either side of the minimum."
+        ),
+        epilog=SAFETY,
+    )
+    common_point(c)
+    c.add_argument("--gap", type=_quantity("length"), metavar="D", help="fix the gap and sweep pressure")
+    c.add_argument("--from", dest="start", metavar="X", help="start of the sweep (pd, or pressure with --gap)")
+    c.add_argument("--to", dest="stop", metavar="X", help="end of the sweep")
+    c.add_argument("--points", type=int, default=200, help="number of points, log-spaced (default 200)")
+
+    g = sub.add_parser(
+        "gases",
+        help="gas and cathode data with sources",
+        description="List gas and cathode data with sources.",
+    )
+    g.add_argument("--json", action="store_true", help="print as JSON (SI units)")
+    return p
+
+
+def _bench_for(args: argparse.Namespace, *, need_gap: bool):
+    """The bench the verb works on: a profile, or one built from --gas/--cathode."""
+    from ..model.bench import Bench
+    from ..profiles.loader import find_cathode, find_gas, load_bench
+
+    if args.bench is not None:
+        bench = load_bench(args.bench).bench
+        if args.gas is not None:
+            bench = replace(bench, gas=find_gas(args.gas), curve=None)
+        if args.cathode is not None:
+            bench = replace(bench, cathode=find_cathode(args.cathode), gamma=None, curve=None)
+    else:
+        if args.gas is None or args.cathode is None:
+            missing = " and ".join(o for o, v in (("--gas", args.gas), ("--cathode", args.cathode)) if v is None)
+            raise UsageError(f"strikeline {args.verb}: {missing} needed (or --bench FILE / --bench demo)")
+        gap = getattr(args, "gap", None)
+        if need_gap and gap is None:
+            raise UsageError(f"strikeline {args.verb}: --gap needed without --bench, e.g. --gap 40mm")
+        bench = Bench(name="command line", gas=find_gas(args.gas), cathode=find_cathode(args.cathode), gap=gap or 1.0)
+    if args.gamma is not None:
+        if not 0 < args.gamma <= 1:
+            raise UsageError(
+                f"strikeline {args.verb}: --gamma {args.gamma!r}: give a yield above 0 and at most 1, e.g. 0.07"
+            )
+        bench = replace(bench, gamma=args.gamma)
+    if args.temperature is not None:
+        if not 20 <= args.temperature <= 3000:
+            raise UsageError(f"strikeline {args.verb}: --temperature {args.temperature:g} K: give 20 K to 3000 K")
+        bench = replace(bench, gas_temperature=args.temperature)
+    return bench
+
+
+def cmd_strike(args: argparse.Namespace) -> int:
+    from ..model.bench import OperatingPoint
+    from ..model.forecast import forecast
+    from .text import forecast_text
+
+    bench = _bench_for(args, need_gap=True)
+    pressure = args.pressure if args.pressure is not None else bench.pressure
+    if pressure is None:
+        raise UsageError("strikeline strike: --pressure needed, e.g. --pressure '0.5 Pa'")
+    gap = args.gap if args.gap is not None else bench.gap
+    point = OperatingPoint(pressure, gap, args.voltage, bench.gas_temperature)
+    f = forecast(point, bench)
+    if args.json:
+        print(json.dumps(f.to_json(), indent=2))
+    else:
+        print(forecast_text(f, args.units))
+    return 0
+
+
+def cmd_curve(args: argparse.Namespace) -> int:
+    import numpy as np
+
+    from ..model import paschen
+
+    bench = _bench_for(args, need_gap=False)
+    if args.points < 2 or args.points > 1_000_000:
+        raise UsageError(f"strikeline curve: --points {args.points}: give 2 to 1000000")
+    c = bench.gas.constants
+    gamma = bench.yield_().value
+    scale = c.reference_temperature / bench.gas_temperature
+    pd_min, _ = paschen.minimum(c.A, c.B, gamma)
+    gap = args.gap  # a pd sweep unless --gap is given, even with a bench
+    what = "pressure" if gap is not None else "pd"
+
+    def read(text: str | None, default: float, option: str) -> float:
+        if text is None:
+            return default
+        try:
+            if gap is not None:
+                return units.parse(text, "pressure", name=option)
+            return units.parse_pd(text, name=option)
+        except QuantityError as e:
+            hint = "" if gap is not None else " (without --gap the sweep is in pd; add --gap to sweep pressure)"
+            raise QuantityError(f"{e}{hint}") from None
+
+    # Defaults span two decades either side of the minimum, in actual (not reduced) units.
+    lo_default = pd_min / scale / 100
+    hi_default = pd_min / scale * 100
+    if gap is not None:
+        lo_default, hi_default = lo_default / gap, hi_default / gap
+    lo = read(args.start, lo_default, "--from")
+    hi = read(args.stop, hi_default, "--to")
+    if not lo < hi:
+        raise UsageError(
+            f"strikeline curve: --from must be below --to (got {lo:g} and {hi:g} {'Pa' if gap else 'Pa m'})"
+        )
+    xs = np.geomspace(lo, hi, args.points)
+    pd = xs * gap if gap is not None else xs
+    rpd = pd * scale
+    from ..model.forecast import curve
+
+    vb, w = curve(rpd, bench)
+    br = paschen.branch(rpd, c.A, gamma)
+    out = sys.stdout
+    cols = (["pressure_Pa", "gap_m"] if what == "pressure" else []) + [
+        "pd_Pa_m",
+        "reduced_pd_Pa_m",
+        "breakdown_V",
+        "branch",
+        "law",
+    ]
+    out.write(",".join(cols) + "\n")
+    for i in range(len(xs)):
+        law = "paschen" if w[i] == 0 else ("uniform-field" if w[i] >= 1 else "blend")
+        v = "" if not np.isfinite(vb[i]) else f"{vb[i]:.10g}"
+        row = ([f"{xs[i]:.10g}", f"{gap:.10g}"] if what == "pressure" else []) + [
+            f"{pd[i]:.10g}",
+            f"{rpd[i]:.10g}",
+            v,
+            str(br[i]),
+            law,
+        ]
+        out.write(",".join(row) + "\n")
+    return 0
+
+
+def cmd_gases(args: argparse.Namespace) -> int:
+    from .text import gases_json, gases_text
+
+    if args.json:
+        print(json.dumps(gases_json(), indent=2))
+    else:
+        print(gases_text())
+    return 0
+
+
+VERBS = {"strike": cmd_strike, "curve": cmd_curve, "gases": cmd_gases}
+
+
+def _log_path() -> Path:
+    from platformdirs import user_log_path
+
+    return user_log_path("strikeline", ensure_exists=True) / "strikeline.log"
+
+
+def _join_negative_values(argv: list[str]) -> list[str]:
+    """Let "--gap -1mm" reach the unit parser (and its message) instead of argparse
+    taking "-1mm" for an option."""
+    out: list[str] = []
+    i = 0
+    while i < len(argv):
+        tok = argv[i]
+        nxt = argv[i + 1] if i + 1 < len(argv) else ""
+        if (
+            tok.startswith("--")
+            and "=" not in tok
+            and len(nxt) > 1
+            and nxt[0] == "-"
+            and (nxt[1].isdigit() or nxt[1] == ".")
+        ):
+            out.append(f"{tok}={nxt}")
+            i += 2
+            continue
+        out.append(tok)
+        i += 1
+    return out
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the command line; returns the exit status (0 fine, 2 bad input, 1 internal)."""
+    argv = _join_negative_values(list(sys.argv[1:] if argv is None else argv))
+    verb = next((a for a in argv if a in VERBS), None)
+    try:
+        args = build_parser().parse_args(argv)
+        if args.verb is None:
+            raise UsageError("strikeline: name a verb: strike, curve or gases (see strikeline --help)")
+        return VERBS[args.verb](args)
+    except (UsageError, QuantityError, ProfileError) as e:
+        msg = _one_line(str(e))
+        if not msg.startswith("strikeline"):
+            msg = f"strikeline {verb}: {msg}" if verb else f"strikeline: {msg}"
+        print(msg, file=sys.stderr)
+        return 2
+    except BrokenPipeError:  # `strikeline curve | head` is fine
+        return 0
+    except KeyboardInterrupt:
+        return 130
+    except Exception as e:  # noqa: BLE001 - the entry point shows one line and logs the rest
+        where = "the log"
+        try:
+            path = _log_path()
+            handler = logging.FileHandler(path, encoding="utf-8")
+            log.addHandler(handler)
+            log.exception("internal error running %r", argv)
+            handler.close()
+            where = str(path)
+        except OSError:
+            pass
+        print(
+            f"strikeline: internal error: {e.__class__.__name__}: {_one_line(str(e))} (details in {where})",
+            file=sys.stderr,
+        )
+        return 1
+
+
+def _one_line(text: str) -> str:
+    return " ".join(text.split())
+
+
+if __name__ == "__main__":
+    sys.exit(main())

@@ -1,0 +1,169 @@
+"""Plain-text renderings shared by the command line and the screen."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from scipy import constants as _c
+
+from ..model.forecast import Forecast
+from ..model.units import format_value
+
+UNIT_SYSTEMS = {
+    # pressure unit, length unit, pd unit (pressure, length)
+    "SI": ("Pa", "mm", ("Pa", "m")),
+    "mbar": ("mbar", "mm", ("mbar", "mm")),
+    "Torr": ("mTorr", "cm", ("Torr", "cm")),
+}
+
+_LEVEL_MARK = {"ok": "ok    ", "watch": "WATCH ", "danger": "DANGER"}
+
+
+def pd_text(pd_si: float | None, system: str) -> str:
+    """A pd value (Pa m) in the unit system's pd unit, e.g. '0.42 Torr cm'."""
+    if pd_si is None:
+        return "none"
+    pu, lu = UNIT_SYSTEMS[system][2]
+    from ..model.units import convert
+
+    value = convert(pd_si, "pressure", pu) * convert(1.0, "length", lu)
+    return f"{_g(value)} {pu} {lu}"
+
+
+def _g(x: float) -> str:
+    return f"{x:.3g}"
+
+
+def forecast_text(f: Forecast, system: str = "SI") -> str:
+    """The forecast as the lines ``strikeline strike`` prints."""
+    pu, lu, _ = UNIT_SYSTEMS[system]
+    rows: list[tuple[str, str]] = [
+        (
+            "gas / cathode",
+            f"{f.gas} / {f.cathode}   gamma {f.gamma:.3g} (range {f.gamma_range[0]:.2g}-{f.gamma_range[1]:.2g})",
+        ),
+        ("pressure", format_value(f.pressure, "pressure", pu)),
+        ("gap", format_value(f.gap, "length", lu)),
+        ("gas temperature", f"{f.gas_temperature:.1f} K (constants at {f.reference_temperature:.2f} K)"),
+        ("pd", f"{pd_text(f.pd, system)}   reduced {pd_text(f.reduced_pd, system)}"),
+        (
+            "breakdown voltage",
+            "none (no voltage breaks this gap down)"
+            if f.breakdown_voltage is None
+            else format_value(f.breakdown_voltage, "voltage", "V") + f"   [{f.law} law]",
+        ),
+        (
+            "branch",
+            {"left": "left of the minimum", "right": "right of the minimum", "none": "left of the asymptote"}[f.branch],
+        ),
+        (
+            "Paschen minimum",
+            f"{format_value(f.minimum_voltage, 'voltage', 'V')} at {pd_text(f.minimum_pd, system)}"
+            f" (at this gap: {format_value(f.minimum_pressure, 'pressure', pu)})",
+        ),
+        ("no breakdown below", format_value(f.no_breakdown_pressure, "pressure", pu) + " at this gap"),
+    ]
+    if f.voltage is not None:
+        rows += [
+            ("voltage", format_value(f.voltage, "voltage", "V")),
+            ("strike margin", "none" if f.margin is None else f"{f.margin:+.0f} V"),
+            ("E/N", f"{_g(f.E_over_N_Td)} Td"),
+            (
+                "alpha d",
+                f"{_g(f.alpha_d)}   avalanche gain exp(alpha d) "
+                + (_g(f.gain) if f.gain is not None and f.gain < 1e300 else "> 1e300"),
+            ),
+        ]
+    width = max(len(k) for k, _ in rows)
+    lines = [f"{k:<{width}}  {v}" for k, v in rows]
+    lines.append("")
+    lines.append("flags")
+    for flag in f.flags:
+        lines.append(f"  {_LEVEL_MARK[flag.level]} {flag.code}: {flag.reason}")
+    if not f.flags:
+        lines.append("  none")
+    lines.append("")
+    lines.append(f"constants: {f.constants_source}")
+    lines.append(f"gamma: {f.gamma_source}")
+    lines.append("Advisory only: strikeline controls nothing. High voltage can kill.")
+    return "\n".join(lines)
+
+
+def gases_json() -> dict[str, Any]:
+    """Gas and cathode data in SI, with sources."""
+    from ..model import paschen
+    from ..profiles.loader import cathodes, gases, unsupported_gases
+
+    out_g = []
+    for g in gases().values():
+        c = g.constants
+        pd_min, v_min = paschen.minimum(c.A, c.B, 0.01)
+        out_g.append(
+            {
+                "name": g.key,
+                "symbol": g.symbol,
+                "A_per_Pa_m": c.A,
+                "B_V_per_Pa_m": c.B,
+                "E_over_p_range_V_per_Pa_m": [c.E_over_p_low, c.E_over_p_high],
+                "reference_temperature_K": c.reference_temperature,
+                "source": c.source,
+                "minimum_at_gamma_0.01": {"pd_Pa_m": pd_min, "voltage_V": v_min},
+                "ionisation_energy_eV": g.ionisation_energy,
+                "ion_mobility_m2_per_V_s": g.ion_mobility,
+                "ion_mobility_source": g.ion_mobility_source,
+                "uniform_field_law": None if g.law is None else {"source": g.law.source},
+            }
+        )
+    seen = set()
+    unsupported = []
+    for name, reason in unsupported_gases().items():
+        if reason not in seen:
+            seen.add(reason)
+            unsupported.append({"name": name, "reason": reason})
+    gas_list = list(gases().values())
+    out_c = []
+    for cat in cathodes().values():
+        out_c.append(
+            {
+                "name": cat.key,
+                "symbol": cat.symbol,
+                "work_function_eV": cat.work_function,
+                "note": cat.note,
+                "gamma": {
+                    g.key: {"value": y.value, "range": [y.low, y.high], "source": y.source}
+                    for g in gas_list
+                    for y in [cat.yield_for(g)]
+                },
+            }
+        )
+    return {"gases": out_g, "unsupported": unsupported, "cathodes": out_c}
+
+
+def gases_text() -> str:
+    """Gas and cathode tables as ``strikeline gases`` prints them."""
+    d = gases_json()
+    per = 1.0 / (_c.centi * _c.torr)
+    lines = ["gases (A, B per cm Torr; minimum at gamma 0.01)", ""]
+    lines.append(f"  {'gas':<15} {'A':>6} {'B':>6} {'E/p range':>11} {'V_min':>7} {'pd_min':>13}  source")
+    for g in d["gases"]:
+        lo, hi = g["E_over_p_range_V_per_Pa_m"]
+        m = g["minimum_at_gamma_0.01"]
+        lines.append(
+            f"  {g['symbol'] + ' ' + ('' if g['symbol'].casefold() == g['name'] else g['name']):<15} "
+            f"{g['A_per_Pa_m'] / per:>6.3g} {g['B_V_per_Pa_m'] / per:>6.4g} "
+            f"{f'{lo / per:.0f}-{hi / per:.0f}':>11} {m['voltage_V']:>5.0f} V "
+            f"{m['pd_Pa_m'] / (_c.torr * _c.centi):>5.3g} Torr cm  {g['source']}"
+        )
+        if g["uniform_field_law"]:
+            lines.append(f"  {'':<15} high pd: {g['uniform_field_law']['source']}")
+    for u in d["unsupported"]:
+        lines.append(f"  {u['name']:<15} not supported: {u['reason']}")
+    lines += ["", "cathodes (gamma by gas)", ""]
+    for c in d["cathodes"]:
+        note = f"  ({c['note']})" if c["note"] else ""
+        lines.append(f"  {c['symbol']} {c['name']}, work function {c['work_function_eV']:g} eV{note}")
+        for gas, y in c["gamma"].items():
+            lines.append(
+                f"      {gas:<15} {y['value']:<7.3g} range {y['range'][0]:.2g}-{y['range'][1]:.2g}  {y['source']}"
+            )
+    return "\n".join(lines)
