@@ -104,6 +104,11 @@ def test_strike_on_the_demo_bench_text(capsys):
     assert "controls nothing" in out
 
 
+def test_no_arguments_shows_the_demo_bench(capsys):
+    code, out, _ = run(capsys)
+    assert code == 0 and "argon / copper" in out and "breakdown voltage" in out
+
+
 def test_strike_text_in_torr_units(capsys):
     code, out, _ = run(
         capsys,
@@ -152,7 +157,7 @@ def test_strike_text_in_torr_units(capsys):
         (["strike", "--bench", "demo", "--temperature", "5 K"], "--temperature 5 K"),
         (["strike", "--bogus"], "unrecognized arguments: --bogus"),
         (["frobnicate"], "invalid choice: 'frobnicate'"),
-        ([], "name a verb"),
+        (["--units", "SI"], "invalid choice: 'SI'"),
         (["curve", "--gas", "Ar", "--cathode", "Cu", "--from", "1 Pa"], "add --gap to sweep pressure"),
         (
             ["curve", "--gas", "Ar", "--cathode", "Cu", "--gap", "1cm", "--from", "10 Pa", "--to", "1 Pa"],

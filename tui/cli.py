@@ -287,7 +287,9 @@ def main(argv: Sequence[str] | None = None) -> int:
     argv = _join_negative_values(list(sys.argv[1:] if argv is None else argv))
     verb = next((a for a in argv if a in VERBS), None)
     try:
-        args = build_parser().parse_args(argv)
+        # With no arguments strikeline shows the built-in demo bench, so a new user sees the
+        # whole job at once.
+        args = build_parser().parse_args(argv or ["strike", "--bench", "demo"])
         if args.verb is None:
             raise UsageError("strikeline: name a verb: strike, curve or gases (see strikeline --help)")
         return VERBS[args.verb](args)
