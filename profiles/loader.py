@@ -12,7 +12,7 @@ import math
 import os
 import tomllib
 from collections.abc import Iterable, Mapping
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from functools import cache
 from importlib import resources
 from pathlib import Path
@@ -279,7 +279,33 @@ def _cathode_tables() -> tuple[dict[str, Cathode], dict[str, str]]:
         )
         for alias in (key, data["symbol"], *data.get("aliases", ())):
             names[_key(alias)] = key
-    return out, names
+    return _borrow_iron_glow(out), names
+
+
+def _borrow_iron_glow(table: dict[str, Cathode]) -> dict[str, Cathode]:
+    """Fill normal-glow gaps from the iron rows of the same gas: j_n/p^2 and p d_n depend
+    mainly on the gas, V_n strongly on the cathode, so a cathode's own V_n is kept where
+    it has one. Every borrowed number says so in its source."""
+    iron = table.get("stainless")
+    if iron is None:
+        return table
+    out = {}
+    for key, cat in table.items():
+        rows = dict(cat.normal_glow)
+        if key != "stainless":
+            for gas_key, fe in iron.normal_glow.items():
+                own = rows.get(gas_key)
+                if own is None:
+                    rows[gas_key] = replace(fe, source=f"iron values used for {cat.key}: {fe.source}")
+                elif own.current_density_per_p2 is None:
+                    rows[gas_key] = replace(
+                        own,
+                        current_density_per_p2=fe.current_density_per_p2,
+                        pd_n=fe.pd_n,
+                        source=f"{own.source}; j_n/p^2 and p d_n from iron: {fe.source}",
+                    )
+        out[key] = replace(cat, normal_glow=rows)
+    return out
 
 
 def _gas_ref(name: str, gas_names: Mapping[str, str], t: _Table) -> str:

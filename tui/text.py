@@ -30,6 +30,10 @@ def pd_text(pd_si: float | None, system: str) -> str:
     return f"{_g(value)} {pu} {lu}"
 
 
+def _amps(i: float) -> str:
+    return f"{i:.3g} A" if i >= 1 else f"{i * 1e3:.3g} mA"
+
+
 def _g(x: float) -> str:
     return f"{x:.3g}"
 
@@ -74,6 +78,51 @@ def forecast_text(f: Forecast, system: str = "SI") -> str:
                 + (_g(f.gain) if f.gain is not None and f.gain < 1e300 else "> 1e300"),
             ),
         ]
+    if f.effective_pressure is not None:
+        rows.append(
+            (
+                "magnetised",
+                f"effective pressure {format_value(f.effective_pressure, 'pressure', pu)}, "
+                f"omega_ce/nu_m {_g(f.hall_parameter)} (crossed-field approximation)",
+            )
+        )
+    lo, hi = f.breakdown_band
+    if f.breakdown_voltage is not None:
+        rows.append(
+            (
+                "breakdown band",
+                f"{'?' if lo is None else f'{lo:.0f}'} to {'?' if hi is None else f'{hi:.0f}'} V"
+                " (gamma range and the constants' uncertainty)",
+            )
+        )
+    for g in f.stray_gaps:
+        v = "none" if g.breakdown_voltage is None else f"{g.breakdown_voltage:.0f} V"
+        rows.append(
+            (
+                f"stray: {g.name}",
+                f"{format_value(g.length, 'length', lu)}, breaks down at {v}" + ("  << FIRST" if g.first else ""),
+            )
+        )
+    if f.load_line is not None:
+        ll = f.load_line
+        cover = "" if ll.covered_fraction is None else f", covers {ll.covered_fraction:.0%} of the cathode"
+        rows.append(
+            (
+                "glow after ignition",
+                f"{ll.regime.replace('_', ' ')}: {_amps(ll.current)} at "
+                f"{ll.voltage:.0f} V{cover} (limited by the {ll.limited_by.replace('_', ' ')})",
+            )
+        )
+    if f.afterglow is not None:
+        a = f.afterglow
+        left = "" if a.residual_fraction is None else f", {a.residual_fraction:.0%} left after the off-time"
+        rows.append(
+            (
+                "afterglow",
+                f"decay time {_g(a.decay_time * 1e6)} us (D_a {_g(a.ambipolar_diffusion)} m2/s, "
+                f"Lambda {_g(a.diffusion_length * 1e3)} mm){left}",
+            )
+        )
     width = max(len(k) for k, _ in rows)
     lines = [f"{k:<{width}}  {v}" for k, v in rows]
     lines.append("")

@@ -34,7 +34,6 @@ def _best(fn, repeats: int) -> float:
 def curve_figures(n: int = 1_000_000, repeats: int = 15) -> dict[str, float]:
     """Time of an n-point breakdown curve against one np.log and against root finding."""
     from scipy.optimize import brentq
-
     from strikeline.model import paschen, townsend
     from strikeline.profiles.loader import find_gas
 
