@@ -113,6 +113,22 @@ def build_parser() -> argparse.ArgumentParser:
     c.add_argument("--to", dest="stop", metavar="X", help="end of the sweep")
     c.add_argument("--points", type=int, default=200, help="number of points, log-spaced (default 200)")
 
+    ga = sub.add_parser(
+        "gauge",
+        help="read the bench's instruments headless",
+        description=(
+            "Read the bench profile's instrument channels and print one line per reading (gas-corrected "
+            "pressure beside the indicated value), to check the wiring before opening the screen."
+        ),
+        epilog=SAFETY,
+    )
+    ga.add_argument("--bench", metavar="FILE", required=True, help="bench profile (.toml), or 'demo'")
+    ga.add_argument("--samples", type=int, default=10, help="stop after this many readings (default 10)")
+    ga.add_argument(
+        "--seconds", type=_quantity("time"), metavar="S", default=None, help="stop after this long, e.g. '30 s'"
+    )
+    ga.add_argument("--json", action="store_true", help="one JSON object per line")
+
     g = sub.add_parser(
         "gases",
         help="gas and cathode data with sources",
@@ -250,7 +266,43 @@ def cmd_gases(args: argparse.Namespace) -> int:
     return 0
 
 
-VERBS = {"strike": cmd_strike, "curve": cmd_curve, "gases": cmd_gases}
+def cmd_gauge(args: argparse.Namespace) -> int:
+    import queue
+    import time
+
+    from ..drivers.hub import Instruments
+    from ..profiles.loader import load_bench
+    from .text import reading_json, reading_text
+
+    profile = load_bench(args.bench)
+    if not profile.ports:
+        raise UsageError(f"strikeline gauge: bench {profile.label!r} has no [[port]] section: nothing to read")
+    if args.samples < 1:
+        raise UsageError(f"strikeline gauge: --samples {args.samples}: give 1 or more")
+    q: queue.Queue = queue.Queue()
+    events: queue.Queue = queue.Queue()
+    inst = Instruments(profile.ports, q.put, lambda port, kind, msg: events.put((port, kind, msg)))
+    deadline = None if args.seconds is None else time.monotonic() + args.seconds
+    count = 0
+    inst.start()
+    try:
+        while count < args.samples and (deadline is None or time.monotonic() < deadline):
+            while not events.empty():
+                port, kind, msg = events.get()
+                print(f"# {port}: {kind} {msg}", file=sys.stderr)
+            try:
+                r = q.get(timeout=0.2)
+            except queue.Empty:
+                continue
+            count += 1
+            corr = profile.gauges.get(r.channel)
+            print(json.dumps(reading_json(r, corr)) if args.json else reading_text(r, corr), flush=True)
+    finally:
+        inst.stop()
+    return 0 if count else 1
+
+
+VERBS = {"strike": cmd_strike, "curve": cmd_curve, "gauge": cmd_gauge, "gases": cmd_gases}
 
 
 def _log_path() -> Path:

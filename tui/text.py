@@ -138,6 +138,56 @@ def forecast_text(f: Forecast, system: str = "SI") -> str:
     return "\n".join(lines)
 
 
+_READING_UNITS = {"pressure": "Pa", "voltage": "V", "current": "mA"}
+
+
+def iso_utc(t_wall: float) -> str:
+    """Unix seconds as an ISO-8601 UTC time with microseconds."""
+    import datetime as _dt
+
+    return _dt.datetime.fromtimestamp(t_wall, _dt.UTC).isoformat(timespec="microseconds").replace("+00:00", "Z")
+
+
+def corrected_value(r, corr) -> tuple[float | None, bool]:
+    """(true value, approximate?) of a reading after its gauge's gas correction."""
+    from ..model.gauges import correct
+
+    if r.value is None or corr is None:
+        return r.value, False
+    return correct(r.value, corr)
+
+
+def reading_json(r, corr=None) -> dict[str, Any]:
+    """One reading as ``strikeline gauge --json`` prints it (SI)."""
+    value, approx = corrected_value(r, corr)
+    return {
+        "channel": r.channel,
+        "quantity": r.quantity,
+        "value_si": value,
+        "indicated": r.value,
+        "status": str(r.status),
+        "approximate": approx,
+        "gauge": None if corr is None else corr.kind,
+        "source": r.source,
+        "raw": r.raw,
+        "t": iso_utc(r.t_wall),
+    }
+
+
+def reading_text(r, corr=None) -> str:
+    """One reading as a line of text."""
+    value, approx = corrected_value(r, corr)
+    unit = _READING_UNITS[r.quantity]
+    kind = {"pressure": "pressure", "voltage": "voltage", "current": "current"}[r.quantity]
+    shown = format_value(value, kind, unit) if value is not None else str(r.status).upper()
+    extra = ""
+    if corr is not None and r.value is not None:
+        extra = (
+            f"  (indicated {format_value(r.value, kind, unit)}, {corr.kind} gauge{', approximate' if approx else ''})"
+        )
+    return f"{iso_utc(r.t_wall)[11:23]}  {r.channel:<16} {shown:>14}  {r.status}{extra}"
+
+
 def gases_json() -> dict[str, Any]:
     """Gas and cathode data in SI, with sources."""
     from ..model import paschen

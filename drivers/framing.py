@@ -1,0 +1,187 @@
+"""Line framing and parsing for ASCII instruments: pure classes fed bytes.
+
+A :class:`LineFramer` cuts a byte stream into lines (split frames, several frames per
+chunk, floods without a terminator); a :class:`ChannelParser` turns one line into a
+:class:`~strikeline.drivers.reading.Reading` as a bench profile configures it (regular
+expression with named groups, unit, status map, scale and offset, range limits, or an
+analog log-linear gauge characteristic). Nothing here touches a port or a clock: the
+caller passes times in.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass, field
+
+from .reading import Reading, Status
+
+__all__ = ["Analog", "ChannelSpec", "ChannelParser", "FrameStats", "LineFramer", "RejectedLine"]
+
+
+@dataclass
+class FrameStats:
+    """Counts of what a port delivered, shown to the operator."""
+
+    lines: int = 0
+    readings: int = 0
+    garbled: int = 0
+    """Lines that matched no channel or did not decode."""
+    overflow: int = 0
+    """Runs of bytes longer than a line may be, dropped."""
+    timeouts: int = 0
+    """Queries with no complete answer in time."""
+    faults: int = 0
+    """Port errors (lost, missing, closed)."""
+    reconnects: int = 0
+
+
+class LineFramer:
+    """Split bytes into lines on ``terminator``; drop (and count) runs over ``max_line``.
+
+    >>> f = LineFramer(b"\\r\\n")
+    >>> f.feed(b"12.5\\r\\n3.")
+    [b'12.5']
+    >>> f.feed(b"0\\r\\n")
+    [b'3.0']
+    """
+
+    def __init__(self, terminator: bytes, max_line: int = 256, stats: FrameStats | None = None):
+        if not terminator:
+            raise ValueError("terminator must not be empty")
+        self.terminator = terminator
+        self.max_line = max_line
+        self.stats = stats if stats is not None else FrameStats()
+        self._buf = bytearray()
+        self._discarding = False
+
+    def feed(self, data: bytes) -> list[bytes]:
+        """Add ``data``; return every complete line it finishes, terminators removed."""
+        self._buf += data
+        out: list[bytes] = []
+        term = self.terminator
+        while True:
+            i = self._buf.find(term)
+            if i < 0:
+                break
+            line = bytes(self._buf[:i])
+            del self._buf[: i + len(term)]
+            if self._discarding:  # the tail of an overlong run: not a frame
+                self._discarding = False
+                continue
+            if len(line) > self.max_line:
+                self.stats.overflow += 1
+                continue
+            self.stats.lines += 1
+            out.append(line)
+        if len(self._buf) > self.max_line + len(term):
+            # Keep a possible partial terminator; drop the rest as one overflow run.
+            keep = len(term) - 1
+            del self._buf[: len(self._buf) - keep]
+            if not self._discarding:
+                self.stats.overflow += 1
+            self._discarding = True
+        return out
+
+    def reset(self) -> None:
+        """Forget a partial line (after a timeout or a reconnect)."""
+        self._buf.clear()
+        self._discarding = False
+
+
+@dataclass(frozen=True)
+class Analog:
+    """A gauge's log-linear voltage characteristic, p = 10^((U - c) / k) in ``unit``."""
+
+    c: float
+    k: float
+    unit_factor: float
+    """SI value of one ``unit`` (e.g. 100 for mbar)."""
+    unit: str
+
+
+@dataclass(frozen=True)
+class ChannelSpec:
+    """How one channel's answers look (built from a bench profile)."""
+
+    name: str
+    quantity: str
+    pattern: re.Pattern[str]
+    """Must have a group ``value``; may have ``unit`` and ``status``."""
+    query: bytes | None = None
+    """What to send to poll this channel (None: the device streams)."""
+    unit_factor: float | None = None
+    """SI value of one unit where the answer carries none."""
+    units: dict[str, float] = field(default_factory=dict)
+    """Accepted unit texts (case-folded) and their SI factors, for a ``unit`` group."""
+    status_map: dict[str, Status] = field(default_factory=dict)
+    scale: float = 1.0
+    offset: float = 0.0
+    over_above: float | None = None
+    """SI value at or above which the reading is over range."""
+    under_below: float | None = None
+    analog: Analog | None = None
+    stale_after: float | None = None
+    """Seconds after which a reading is stale."""
+    encoding: str = "ascii"
+
+
+class RejectedLine(Exception):  # noqa: N818 - a verdict on a line, not an error
+    """A line that is not a reading of this channel (the reason is the message)."""
+
+
+class ChannelParser:
+    """Turn a line into a Reading for one channel, or raise :class:`RejectedLine`."""
+
+    def __init__(self, spec: ChannelSpec, source: str = "serial"):
+        self.spec = spec
+        self.source = source
+
+    def parse(self, line: bytes, t_mono: float, t_wall: float) -> Reading:
+        s = self.spec
+        try:
+            text = line.decode(s.encoding).strip()
+        except (UnicodeDecodeError, LookupError):
+            raise RejectedLine(f"not {s.encoding} text") from None
+        m = s.pattern.search(text)
+        if m is None:
+            raise RejectedLine("does not match the channel's pattern")
+        groups = m.groupdict()
+
+        def reading(value: float | None, status: Status) -> Reading:
+            return Reading(s.name, s.quantity, value, status, text, t_mono, t_wall, self.source)
+
+        if groups.get("status") is not None and s.status_map:
+            st = s.status_map.get(groups["status"].strip().casefold())
+            if st is None:
+                raise RejectedLine(f"unknown status {groups['status']!r}")
+            if st is not Status.OK:
+                return reading(None, st)
+        try:
+            number = float(groups["value"])
+        except (TypeError, ValueError):
+            raise RejectedLine("value is not a number") from None
+        if not math.isfinite(number):
+            raise RejectedLine("value is not finite")
+        number = number * s.scale + s.offset
+        if s.analog is not None:
+            exponent = (number - s.analog.c) / s.analog.k
+            if not -30 < exponent < 30:
+                raise RejectedLine("analog voltage outside the characteristic")
+            value = 10.0**exponent * s.analog.unit_factor
+        else:
+            factor = s.unit_factor
+            if groups.get("unit") is not None:
+                factor = s.units.get(groups["unit"].strip().casefold())
+                if factor is None:
+                    raise RejectedLine(f"unknown unit {groups['unit']!r}")
+            if factor is None:
+                raise RejectedLine("no unit")
+            value = number * factor
+        if s.over_above is not None and value >= s.over_above:
+            return reading(None, Status.OVER_RANGE)
+        if s.under_below is not None and value <= s.under_below:
+            return reading(None, Status.UNDER_RANGE)
+        if s.quantity == "pressure" and value <= 0:
+            raise RejectedLine("pressure is not above zero")
+        return reading(value, Status.OK)

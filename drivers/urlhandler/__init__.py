@@ -1,0 +1,1 @@
+"""pyserial URL handlers of our own (``serial.protocol_handler_packages``)."""

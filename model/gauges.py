@@ -1,0 +1,47 @@
+"""Gas correction of vacuum-gauge readings.
+
+A gauge reads true pressure only for the gas it was calibrated on (nitrogen, for most).
+strikeline writes every correction as true = factor x indicated (Pa in, Pa out):
+
+- capacitance diaphragm: factor 1, the gauge measures force per area, whatever the gas;
+- thermal conductivity (Pirani-type), N2-calibrated: factor C of the gas, valid in the
+  gauge's linear range only (low pressure); above it the response bends and the corrected
+  value is approximate;
+- ionisation: factor 1/S with S the gas's relative sensitivity (N2 = 1).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+__all__ = ["GAUGE_KINDS", "GaugeCorrection", "correct"]
+
+GAUGE_KINDS = ("capacitance", "thermal", "ionisation")
+
+
+@dataclass(frozen=True)
+class GaugeCorrection:
+    """How one gauge's reading is corrected for the bench's gas."""
+
+    kind: str
+    factor: float | None
+    """true = factor x indicated; None where no factor is known for this gas."""
+    valid_below: float | None
+    """Pa: above this indicated pressure the correction is approximate (None: no limit)."""
+    source: str
+
+
+def correct(indicated: float, c: GaugeCorrection) -> tuple[float, bool]:
+    """(true pressure in Pa, approximate?) for an ``indicated`` reading in Pa.
+
+    >>> correct(10.0, GaugeCorrection("thermal", 1.6, 100.0, ""))
+    (16.0, False)
+    >>> correct(1000.0, GaugeCorrection("thermal", 1.6, 100.0, ""))
+    (1600.0, True)
+    >>> correct(10.0, GaugeCorrection("thermal", None, 100.0, ""))
+    (10.0, True)
+    """
+    if c.factor is None:
+        return indicated, True
+    approximate = c.valid_below is not None and indicated > c.valid_below
+    return indicated * c.factor, approximate
