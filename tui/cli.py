@@ -129,6 +129,30 @@ def build_parser() -> argparse.ArgumentParser:
     )
     ga.add_argument("--json", action="store_true", help="one JSON object per line")
 
+    r = sub.add_parser(
+        "record",
+        help="log the bench's instruments headless",
+        description=(
+            "Log the bench's instruments and forecasts to a logbook without the screen, for unattended runs. "
+            "The logbook is flushed per record and synced every second: a crash loses at most the last second."
+        ),
+        epilog=SAFETY,
+    )
+    r.add_argument("--bench", metavar="FILE", required=True, help="bench profile (.toml), or 'demo'")
+    r.add_argument(
+        "--seconds", type=_quantity("time"), metavar="S", required=True, help="how long, e.g. '8 h', '600 s'"
+    )
+    r.add_argument("--log", metavar="PATH", help="logbook file (default: a new file in the user data folder)")
+
+    lg = sub.add_parser(
+        "log",
+        help="summarise a logbook",
+        description="Summarise a logbook: span, readings per channel, gaps and faults, strike marks, flag changes.",
+    )
+    lg.add_argument("path", metavar="PATH", help="a logbook (.jsonl)")
+    lg.add_argument("--strikes", metavar="CSV", help="also write the strike marks as a calibration CSV")
+    lg.add_argument("--json", action="store_true", help="print the summary as JSON")
+
     g = sub.add_parser(
         "gases",
         help="gas and cathode data with sources",
@@ -302,13 +326,89 @@ def cmd_gauge(args: argparse.Namespace) -> int:
     return 0 if count else 1
 
 
-VERBS = {"strike": cmd_strike, "curve": cmd_curve, "gauge": cmd_gauge, "gases": cmd_gases}
+def cmd_record(args: argparse.Namespace) -> int:
+    import queue
+    import time
+
+    from ..drivers.hub import Instruments
+    from ..drivers.logbook import Logbook
+    from ..profiles.loader import load_bench
+    from .locations import new_logbook_path
+    from .session import Session
+
+    profile = load_bench(args.bench)
+    if not profile.ports:
+        raise UsageError(f"strikeline record: bench {profile.label!r} has no [[port]] section: nothing to record")
+    path = Path(args.log) if args.log else new_logbook_path(profile.bench.name, time.time())
+    errors: list[str | None] = []
+    book = Logbook(path, on_error=errors.append)
+    book.open(bench=profile.label, gas=profile.bench.gas.key, cathode=profile.bench.cathode.key, mode="record")
+    session = Session(profile, logbook=book)
+    q: queue.Queue = queue.Queue()
+    inst = Instruments(profile.ports, q.put, lambda port, kind, msg: q.put((port, kind, msg)))
+    print(f"strikeline record: logging {profile.label} to {path} for {args.seconds:g} s", file=sys.stderr)
+    end = time.monotonic() + args.seconds
+    next_view = 0.0
+    shown_error = None
+    inst.start()
+    try:
+        while time.monotonic() < end:
+            try:
+                item = q.get(timeout=0.1)
+            except queue.Empty:
+                item = None
+            if isinstance(item, tuple):
+                session.event(*item)
+            elif item is not None:
+                session.handle(item)
+            if time.monotonic() >= next_view:
+                session.view()
+                next_view = time.monotonic() + 0.5
+            if errors and errors[-1] != shown_error:
+                shown_error = errors[-1]
+                print(f"strikeline record: {shown_error or 'logbook writing again'}", file=sys.stderr)
+    finally:
+        inst.stop()
+        book.close()
+    print(f"strikeline record: {book.written} records in {path}", file=sys.stderr)
+    return 0 if book.error is None else 1
 
 
-def _log_path() -> Path:
-    from platformdirs import user_log_path
+def cmd_log(args: argparse.Namespace) -> int:
+    import csv
 
-    return user_log_path("strikeline", ensure_exists=True) / "strikeline.log"
+    from ..drivers.logbook import read_logbook
+    from .logsummary import STRIKE_COLUMNS, strike_rows, summarise
+    from .text import log_summary_text
+
+    try:
+        log = read_logbook(args.path)
+    except FileNotFoundError:
+        raise UsageError(f"strikeline log: {args.path!r}: no such file; give a logbook (.jsonl)") from None
+    except (OSError, UnicodeDecodeError) as e:
+        raise UsageError(f"strikeline log: {args.path!r}: cannot be read ({e})") from None
+    if not log.records:
+        raise UsageError(f"strikeline log: {args.path!r}: no logbook records in it")
+    summary = summarise(log)
+    if args.strikes:
+        rows = strike_rows(log)
+        with open(args.strikes, "w", newline="", encoding="utf-8") as f:
+            w = csv.DictWriter(f, fieldnames=STRIKE_COLUMNS)
+            w.writeheader()
+            w.writerows(rows)
+        print(f"strikeline log: {len(rows)} strike marks written to {args.strikes}", file=sys.stderr)
+    print(json.dumps(summary, indent=2) if args.json else log_summary_text(summary))
+    return 0
+
+
+VERBS = {
+    "strike": cmd_strike,
+    "curve": cmd_curve,
+    "gauge": cmd_gauge,
+    "record": cmd_record,
+    "log": cmd_log,
+    "gases": cmd_gases,
+}
 
 
 def _join_negative_values(argv: list[str]) -> list[str]:
@@ -358,7 +458,9 @@ def main(argv: Sequence[str] | None = None) -> int:
     except Exception as e:  # noqa: BLE001 - the entry point shows one line and logs the rest
         where = "the log"
         try:
-            path = _log_path()
+            from .locations import error_log_path
+
+            path = error_log_path()
             handler = logging.FileHandler(path, encoding="utf-8")
             log.addHandler(handler)
             log.exception("internal error running %r", argv)

@@ -266,3 +266,31 @@ def gases_text() -> str:
                 f"      {gas:<15} {y['value']:<7.3g} range {y['range'][0]:.2g}-{y['range'][1]:.2g}  {y['source']}"
             )
     return "\n".join(lines)
+
+
+def log_summary_text(s: dict[str, Any]) -> str:
+    """A logbook summary as ``strikeline log`` prints it."""
+    lines = [f"bench {s['bench']}: {s['records']} records over {s['span_s']:.1f} s"]
+    if s["start"] is not None:
+        lines.append(f"  from {iso_utc(s['start'])} to {iso_utc(s['end'])}")
+    lines.append("readings per channel")
+    for ch, counts in s["readings"].items():
+        parts = ", ".join(f"{n} {st}" for st, n in sorted(counts.items()))
+        lines.append(f"  {ch:<18} {parts}")
+    lines.append(f"gaps and faults ({len(s['gaps'])} gaps, {len(s['faults'])} faults, {s['connections']} connections)")
+    for g in s["gaps"]:
+        end = "end" if g["to"] is None else iso_utc(g["to"])[11:23]
+        lines.append(f"  {g['channel']:<18} {iso_utc(g['from'])[11:23]} to {end}: {g['why']}")
+    for e in s["faults"]:
+        lines.append(f"  {e.get('port', '?'):<18} {e['t'][11:23]} {e.get('event')}: {e.get('message', '')}")
+    lines.append(f"strike marks ({len(s['strikes'])})")
+    for m in s["strikes"]:
+        lines.append(
+            f"  {m['t'][11:23]}  {m['pressure_Pa']:.4g} Pa, gap {m['gap_m'] * 1e3:.4g} mm, {m['voltage_V']:.0f} V"
+        )
+    lines.append(f"flag changes ({len(s['flag_changes'])})")
+    for f in s["flag_changes"]:
+        lines.append(f"  {f['t'][11:23]}  {f['change']:<7} {f['level']:<6} {f['code']}: {f['reason']}")
+    if s["torn_tail"] or s["bad_lines"]:
+        lines.append(f"note: torn last line skipped: {s['torn_tail']}; unreadable lines: {s['bad_lines'] or 'none'}")
+    return "\n".join(lines)

@@ -19,6 +19,9 @@ import numpy as np
 BUDGETS = {
     "curve_vs_log": ("<=", 4.0),
     "curve_vs_rootfind": (">=", 100.0),
+    "poll_latency_ms_p50": ("<=", 5.0),
+    "max_poll_hz": (">=", 200.0),
+    "eight_hour_rss_growth_MB": ("<=", 10.0),
 }
 
 
@@ -66,12 +69,134 @@ def curve_figures(n: int = 1_000_000, repeats: int = 15) -> dict[str, float]:
     }
 
 
+def poll_figures(seconds: float = 2.0) -> dict[str, float]:
+    """Answer written on a pty -> Reading available (median, p95), and the sustained poll rate."""
+    import re
+    import threading
+    from pathlib import Path
+
+    sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
+    from fakes import PtyInstrument
+    from strikeline.drivers.framing import ChannelSpec
+    from strikeline.drivers.port import PortReader, PortSpec
+    from strikeline.drivers.reading import Status
+
+    written: list[float] = []
+
+    def respond(line: bytes) -> bytes:
+        written.append(time.perf_counter())
+        return b"0;1.00E-02;mbar\r"
+
+    dev = PtyInstrument(respond, terminator=b"\r")
+    chan = ChannelSpec(
+        "chamber",
+        "pressure",
+        re.compile(r"^(?P<status>\d);(?P<value>\S+);mbar$"),
+        query=b"?P\r",
+        unit_factor=100.0,
+        status_map={"0": Status.OK},
+    )
+
+    def run(interval: float) -> tuple[list[float], int, int]:
+        written.clear()
+        arrived: list[float] = []
+        done = threading.Event()
+        spec = PortSpec("bench", dev.path, (chan,), terminator=b"\r", poll_interval=interval, timeout=0.5)
+        reader = PortReader(spec, lambda r: arrived.append(time.perf_counter()))
+        reader.start()
+        done.wait(seconds)
+        count, timeouts = len(arrived), reader.stats.timeouts  # before stop() cancels a read
+        reader.stop()
+        n = min(len(written), len(arrived))
+        return [arrived[i] - written[i] for i in range(n)], count, timeouts
+
+    lat, _, _ = run(0.05)  # 20 Hz, as the screen's budget assumes
+    _, count, timeouts = run(0.0)  # as fast as the link goes
+    dev.close()
+    lat_ms = np.array(lat) * 1e3
+    return {
+        "poll_latency_ms_p50": float(np.median(lat_ms)),
+        "poll_latency_ms_p95": float(np.percentile(lat_ms, 95)),
+        "max_poll_hz": count / seconds if timeouts == 0 else 0.0,
+    }
+
+
+def _rss_mb() -> float:
+    with open("/proc/self/status") as f:
+        for line in f:
+            if line.startswith("VmRSS:"):
+                return int(line.split()[1]) / 1024
+    return float("nan")
+
+
+def logbook_figures(hours: float = 8.0, rate_hz: float = 10.0) -> dict[str, float]:
+    """A shift on a simulated clock through the real Session and Logbook: RSS growth, record rate."""
+    import gc
+    import tempfile
+    from pathlib import Path
+
+    from strikeline.drivers.logbook import Logbook, read_logbook
+    from strikeline.drivers.reading import Reading, Status
+    from strikeline.drivers.sim import Scenario, pressure_at, supply_at
+    from strikeline.profiles.loader import load_bench
+    from strikeline.tui.session import Session
+
+    class Clock:
+        t = 0.0
+
+        def __call__(self):
+            return self.t
+
+    clock, wall = Clock(), Clock()
+    sc = Scenario()
+    with tempfile.TemporaryDirectory() as tmp:
+        path = Path(tmp) / "shift.jsonl"
+        book = Logbook(path, clock=clock, wall=lambda: 1.8e9 + clock.t, sync_interval=3600)
+        book.open(bench="demo", mode="benchmark")
+        session = Session(load_bench("demo"), logbook=book, clock=clock)
+        steps = int(hours * 3600 * rate_hz)
+        warm = int(600 * rate_hz)  # ten simulated minutes before the first measurement
+        rss0 = None
+        t_start = time.perf_counter()
+        for i in range(steps):
+            t = i / rate_hz
+            clock.t = t
+            v, a = supply_at(t, sc)
+            for ch, q, x in (
+                ("chamber", "pressure", pressure_at(t, sc) / 1.6),
+                ("supply-voltage", "voltage", v),
+                ("supply-current", "current", a),
+            ):
+                session.handle(Reading(ch, q, x, Status.OK, f"{x:.4E}", t, 1.8e9 + t, "simulated"))
+            if i % 5 == 0:  # the forecast twice a second, as `record` does
+                session.view(t)
+            if i % 36000 == 0:
+                book.sync()  # once an hour here; the real sync thread does it every second
+            if i == warm:
+                gc.collect()
+                rss0 = _rss_mb()
+        elapsed = time.perf_counter() - t_start
+        gc.collect()
+        growth = _rss_mb() - rss0
+        book.close()
+        written = book.written
+        readings = sum(1 for r in read_logbook(path).records if r["kind"] == "reading")
+    return {
+        "eight_hour_rss_growth_MB": growth,
+        "eight_hour_readings_logged": readings,
+        "eight_hour_readings_expected": steps * 3,
+        "logbook_records_per_s": written / elapsed,
+    }
+
+
 def main(argv: list[str] | None = None) -> int:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--json", action="store_true", help="print one JSON object of figures")
     args = ap.parse_args(argv)
     figures: dict[str, float] = {}
     figures |= curve_figures()
+    figures |= poll_figures()
+    figures |= logbook_figures()
     verdicts = {}
     for key, (op, budget) in BUDGETS.items():
         if key in figures:

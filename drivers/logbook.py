@@ -1,0 +1,300 @@
+"""The shift logbook: append-only JSON lines that survive a crash, and their replay.
+
+Format ("strikeline-logbook/1"): one JSON object per line, UTF-8. Every record has
+
+    t       ISO-8601 UTC time, e.g. "2026-12-01T09:30:00.123456Z"
+    t_unix  the same as Unix seconds
+    mono    seconds since the session started (monotonic clock)
+    kind    "session" (first line), "reading", "strike", "forecast", "flag", "event", "entry"
+
+and the fields of its kind (SI units, named with them: pressure_Pa, gap_m, voltage_V...).
+``pandas.read_json(path, lines=True)`` opens it directly.
+
+Durability: each record is written and flushed at once, and the file is fsync'd at least
+once a second; a killed process loses at most the last second, and a torn last line is
+skipped on reading. A failing disk (full, read-only) does not stop the session: the error
+is reported once and records wait in a bounded backlog until writing works again.
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+import json
+import math
+import os
+import threading
+import time
+from collections import deque
+from collections.abc import Callable
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+from .reading import Reading, Status
+
+__all__ = ["FORMAT", "LogRead", "Logbook", "ReplaySource", "read_logbook", "reading_from_record"]
+
+FORMAT = "strikeline-logbook/1"
+
+
+def _iso(t_wall: float) -> str:
+    return _dt.datetime.fromtimestamp(t_wall, _dt.UTC).isoformat(timespec="microseconds").replace("+00:00", "Z")
+
+
+def _clean(x: Any) -> Any:
+    if isinstance(x, float) and not math.isfinite(x):
+        return None
+    if isinstance(x, dict):
+        return {k: _clean(v) for k, v in x.items()}
+    if isinstance(x, list | tuple):
+        return [_clean(v) for v in x]
+    return x
+
+
+class Logbook:
+    """Append records to one logbook file.
+
+    ``opener`` (default :func:`open`) and the clocks are replaceable for tests. ``on_error``
+    is called (from the writing thread) with a one-line message when writing starts or
+    stops failing.
+    """
+
+    def __init__(
+        self,
+        path: str | os.PathLike[str],
+        *,
+        clock: Callable[[], float] = time.monotonic,
+        wall: Callable[[], float] = time.time,
+        sync_interval: float = 1.0,
+        on_error: Callable[[str | None], None] | None = None,
+        opener: Callable[..., Any] = open,
+        backlog: int = 100_000,
+    ):
+        self.path = Path(path)
+        self.clock, self.wall = clock, wall
+        self.sync_interval = sync_interval
+        self.on_error = on_error or (lambda msg: None)
+        self.opener = opener
+        self.error: str | None = None
+        self.written = 0
+        self.dropped = 0
+        self._backlog: deque[str] = deque(maxlen=backlog)
+        self._lock = threading.Lock()
+        self._f = None
+        self._dirty = False
+        self._t0 = clock()
+        self._stop = threading.Event()
+        self._syncer: threading.Thread | None = None
+        self._last_retry = -math.inf
+
+    def open(self, **header: Any) -> None:
+        """Open (append) and write the session header; start the once-a-second sync."""
+        try:
+            self.path.parent.mkdir(parents=True, exist_ok=True)
+        except OSError:
+            pass  # reported by the first write
+        self._try_open()
+        self.write("session", format=FORMAT, **header)
+        self._syncer = threading.Thread(target=self._sync_loop, name="logbook-sync", daemon=True)
+        self._syncer.start()
+
+    def _try_open(self) -> bool:
+        if self._f is not None:
+            return True
+        try:
+            self._f = self.opener(self.path, "a", encoding="utf-8")
+            return True
+        except OSError as e:
+            self._fail(e)
+            return False
+
+    def _fail(self, e: OSError) -> None:
+        msg = f"logbook {self.path}: cannot write ({e.strerror or e}); records kept in memory and retried"
+        if self.error != msg:
+            self.error = msg
+            self.on_error(msg)
+        if self._f is not None:
+            try:
+                self._f.close()
+            except OSError:
+                pass
+            self._f = None
+
+    def write(self, kind: str, **fields: Any) -> None:
+        """Append one record now (flushed before returning when the disk allows)."""
+        wall = self.wall()
+        rec = {"t": _iso(wall), "t_unix": wall, "mono": round(self.clock() - self._t0, 6), "kind": kind}
+        rec.update(fields)
+        line = json.dumps(_clean(rec), ensure_ascii=False, separators=(",", ":")) + "\n"
+        with self._lock:
+            if len(self._backlog) == self._backlog.maxlen:
+                self.dropped += 1
+            self._backlog.append(line)
+            if self.error is not None and self.clock() - self._last_retry < self.sync_interval:
+                return  # failing: retry at most once per sync interval
+            self._drain()
+
+    def _drain(self) -> None:
+        self._last_retry = self.clock()
+        if not self._try_open():
+            return
+        try:
+            while self._backlog:
+                self._f.write(self._backlog[0])
+                self._f.flush()
+                self._backlog.popleft()
+                self.written += 1
+            self._dirty = True
+        except OSError as e:
+            self._fail(e)
+            return
+        if self.error is not None:
+            self.error = None
+            self.on_error(None)
+
+    def sync(self) -> None:
+        """fsync what has been written (the sync thread does this once a second)."""
+        with self._lock:
+            if self.error is not None and self._backlog:
+                self._drain()
+            if self._f is not None and self._dirty:
+                try:
+                    os.fsync(self._f.fileno())
+                    self._dirty = False
+                except (OSError, ValueError, AttributeError) as e:
+                    if isinstance(e, OSError):
+                        self._fail(e)
+
+    def _sync_loop(self) -> None:
+        while not self._stop.wait(self.sync_interval):
+            self.sync()
+
+    def close(self) -> None:
+        """Write what is pending, sync and close."""
+        self._stop.set()
+        if self._syncer is not None:
+            self._syncer.join(2)
+        self.sync()
+        with self._lock:
+            if self._f is not None:
+                try:
+                    self._f.close()
+                except OSError:
+                    pass
+                self._f = None
+
+    @property
+    def pending(self) -> int:
+        """Records waiting for the disk."""
+        return len(self._backlog)
+
+
+@dataclass
+class LogRead:
+    """A logbook as read back."""
+
+    records: list[dict[str, Any]] = field(default_factory=list)
+    bad_lines: list[int] = field(default_factory=list)
+    """Line numbers (1-based) that were not records, torn tail excluded."""
+    torn_tail: bool = False
+    """The last line was cut short (a crash mid-write) and was skipped."""
+
+
+def read_logbook(path: str | os.PathLike[str]) -> LogRead:
+    """Read a logbook, tolerating a torn last line and counting any bad ones."""
+    out = LogRead()
+    with open(path, encoding="utf-8", errors="replace") as f:
+        lines = f.read().split("\n")
+    last = len(lines)
+    for i, line in enumerate(lines, 1):
+        if not line.strip():
+            continue
+        try:
+            rec = json.loads(line)
+            if not isinstance(rec, dict) or "kind" not in rec:
+                raise ValueError("not a record")
+        except ValueError:
+            if i == last:  # no newline after it: cut short by a crash
+                out.torn_tail = True
+            else:
+                out.bad_lines.append(i)
+            continue
+        out.records.append(rec)
+    return out
+
+
+def reading_from_record(rec: dict[str, Any], t_mono: float) -> Reading | None:
+    """The Reading a "reading" record holds (its indicated value), stamped ``t_mono``."""
+    if rec.get("kind") != "reading":
+        return None
+    try:
+        status = Status(rec.get("status", "ok"))
+        value = rec.get("indicated")
+        value = None if value is None else float(value)
+        return Reading(
+            str(rec["channel"]),
+            str(rec["quantity"]),
+            value,
+            status,
+            str(rec.get("raw", "")),
+            t_mono,
+            float(rec.get("t_unix", 0.0)),
+            "replay",
+        )
+    except (KeyError, ValueError, TypeError):
+        return None
+
+
+class ReplaySource:
+    """Feed a logbook's readings back, at their own pace (``speed`` 1), faster, or at once (0).
+
+    Readings go to ``emit`` and every other record to ``on_record``; each reading is
+    stamped with the replay's own clock so staleness works as it did live.
+    """
+
+    def __init__(
+        self,
+        records: list[dict[str, Any]],
+        emit: Callable[[Reading], None],
+        on_record: Callable[[dict[str, Any]], None] | None = None,
+        *,
+        speed: float = 1.0,
+        clock: Callable[[], float] = time.monotonic,
+        on_done: Callable[[], None] | None = None,
+    ):
+        self.records = records
+        self.emit, self.on_record = emit, on_record or (lambda rec: None)
+        self.speed, self.clock = speed, clock
+        self.on_done = on_done or (lambda: None)
+        self.emitted = 0
+        self._stop = threading.Event()
+        self._thread: threading.Thread | None = None
+
+    def run(self) -> None:
+        """Replay in the calling thread (returns when done or stopped)."""
+        start_clock = self.clock()
+        start_mono = next((float(r.get("mono", 0.0)) for r in self.records), 0.0)
+        for rec in self.records:
+            if self._stop.is_set():
+                return
+            if self.speed > 0:
+                due = start_clock + (float(rec.get("mono", start_mono)) - start_mono) / self.speed
+                wait = due - self.clock()
+                if wait > 0 and self._stop.wait(wait):
+                    return
+            r = reading_from_record(rec, self.clock())
+            if r is not None:
+                self.emitted += 1
+                self.emit(r)
+            else:
+                self.on_record(rec)
+        self.on_done()
+
+    def start(self) -> None:
+        self._thread = threading.Thread(target=self.run, name="replay", daemon=True)
+        self._thread.start()
+
+    def stop(self) -> None:
+        self._stop.set()
+        if self._thread is not None:
+            self._thread.join(2)

@@ -1,0 +1,302 @@
+"""One tuning session: readings and typed values in, forecasts out, everything logged.
+
+The command line's ``record`` verb and the live screen both drive a :class:`Session`; it
+owns no thread and no terminal, and takes its clocks from the caller so tests can freeze
+time. A reading that is lost or older than its channel's stale limit withdraws the
+forecast built on it: :meth:`Session.forecast` then says why instead of giving numbers.
+"""
+
+from __future__ import annotations
+
+import time
+from collections.abc import Callable
+from dataclasses import dataclass, replace
+
+from ..drivers.hub import Latest
+from ..drivers.logbook import Logbook
+from ..drivers.reading import Reading, Status
+from ..model import units
+from ..model.bench import OperatingPoint
+from ..model.forecast import Flag, Forecast, forecast
+from ..model.gauges import correct
+from ..profiles.loader import BenchProfile, find_cathode, find_gas
+
+__all__ = ["FIELDS", "PressureNow", "Session", "StrikeMark", "View"]
+
+FIELDS = {"pressure": "pressure", "gap": "length", "voltage": "voltage", "temperature": "temperature"}
+"""What the operator may type, and the kind of quantity each is."""
+
+_LIMITS = {
+    "pressure": (1e-6, 1e6),
+    "gap": (1e-6, 10.0),
+    "voltage": (1.0, 1e6),
+    "temperature": (20.0, 3000.0),
+}
+
+
+@dataclass(frozen=True)
+class StrikeMark:
+    """The operator saw the bench strike here."""
+
+    t_wall: float
+    pressure: float
+    """True pressure, Pa."""
+    gap: float
+    voltage: float
+    gas_temperature: float
+    source: str
+    """Where the pressure came from: a channel name or "manual"."""
+    note: str = ""
+
+
+@dataclass(frozen=True)
+class PressureNow:
+    """The pressure the forecast would use now, and whether it may."""
+
+    value: float | None
+    """True (gas-corrected) pressure, Pa; None when withdrawn."""
+    indicated: float | None
+    status: str
+    """A reading status, or "manual"."""
+    approximate: bool
+    source: str
+    withdrawn: str | None
+    """Why no forecast may be built on it (None: it may)."""
+
+
+@dataclass(frozen=True)
+class View:
+    """What the session says now."""
+
+    pressure: PressureNow
+    forecast: Forecast | None
+    withdrawn: str | None
+
+
+class Session:
+    """A bench, its latest readings, the operator's values, the forecast and the logbook."""
+
+    def __init__(
+        self,
+        profile: BenchProfile,
+        *,
+        logbook: Logbook | None = None,
+        manual: bool = False,
+        clock: Callable[[], float] = time.monotonic,
+        wall: Callable[[], float] = time.time,
+        heartbeat: float = 10.0,
+    ):
+        self.profile = profile
+        self.bench = profile.bench
+        self.logbook = logbook
+        self.clock, self.wall = clock, wall
+        self.heartbeat = heartbeat
+        channels = [c for p in profile.ports for c in p.channels]
+        self.latest = Latest({c.name: c.stale_after for c in channels})
+        self.channels = {c.name: c for c in channels}
+        self.pressure_channel = None if manual else next((c.name for c in channels if c.quantity == "pressure"), None)
+        self.use_gauge = self.pressure_channel is not None
+        self.values: dict[str, float | None] = {
+            "pressure": self.bench.pressure,
+            "gap": self.bench.gap,
+            "voltage": None if self.bench.supply is None else self.bench.supply.open_circuit_voltage,
+            "temperature": self.bench.gas_temperature,
+        }
+        self.strikes: list[StrikeMark] = []
+        self._flags: dict[str, Flag] = {}
+        self._summary: tuple | None = None
+        self._summary_at = -float("inf")
+
+    # -- inputs -------------------------------------------------------------------
+
+    def handle(self, r: Reading) -> None:
+        """Take one reading from any source and log it."""
+        self.latest.update(r)
+        if self.logbook is not None:
+            value, approx = self.corrected(r)
+            self.logbook.write(
+                "reading",
+                channel=r.channel,
+                quantity=r.quantity,
+                value=value,
+                indicated=r.value,
+                status=str(r.status),
+                approximate=approx,
+                source=r.source,
+                raw=r.raw,
+            )
+
+    def corrected(self, r: Reading) -> tuple[float | None, bool]:
+        corr = self.profile.gauges.get(r.channel)
+        if r.value is None or corr is None:
+            return r.value, False
+        return correct(r.value, corr)
+
+    def event(self, port: str, kind: str, message: str) -> None:
+        """A connection or fault on a port."""
+        if self.logbook is not None:
+            self.logbook.write("event", port=port, event=kind, message=message)
+
+    def set_value(self, name: str, text: str) -> str | None:
+        """Set ``name`` from typed ``text``; on bad input keep the old value and return why."""
+        kind = FIELDS[name]
+        try:
+            v = units.parse(text, kind, name=name)
+            lo, hi = _LIMITS[name]
+            if not lo <= v <= hi:
+                si = units.units_of(kind)[0]
+                raise units.QuantityError(f"{name} {text!r}: outside {lo:g} to {hi:g} {si}")
+        except units.QuantityError as e:
+            self._entry(name, text, False, str(e))
+            return str(e)
+        self.values[name] = v
+        if name == "pressure":
+            self.use_gauge = False  # a typed pressure overrides the gauge until asked back
+        self._entry(name, text, True, "")
+        return None
+
+    def nudge(self, name: str, factor: float) -> None:
+        """Scale ``name`` by ``factor`` (pressure, gap, voltage), within its limits."""
+        if name == "pressure" and self.use_gauge:
+            now = self.pressure_now(self.clock())
+            if now.value is not None:
+                self.values["pressure"] = now.value
+            self.use_gauge = False
+        v = self.values.get(name)
+        if v is None:
+            return
+        lo, hi = _LIMITS[name]
+        self.values[name] = min(max(v * factor, lo), hi)
+        self._entry(name, f"x{factor:g}", True, "")
+
+    def follow_gauge(self) -> bool:
+        """Go back to the live gauge for pressure (False if there is none)."""
+        if self.pressure_channel is None:
+            return False
+        self.use_gauge = True
+        self._entry("pressure", "gauge", True, "")
+        return True
+
+    def set_gas(self, name: str) -> str | None:
+        try:
+            gas = find_gas(name)
+        except ValueError as e:
+            return str(e)
+        self.bench = replace(self.bench, gas=gas, curve=None)
+        self._entry("gas", name, True, "")
+        return None
+
+    def set_cathode(self, name: str) -> str | None:
+        try:
+            cathode = find_cathode(name)
+        except ValueError as e:
+            return str(e)
+        self.bench = replace(self.bench, cathode=cathode, gamma=None, curve=None)
+        self._entry("cathode", name, True, "")
+        return None
+
+    def _entry(self, name: str, text: str, accepted: bool, message: str) -> None:
+        if self.logbook is not None:
+            self.logbook.write("entry", field=name, text=text, accepted=accepted, message=message)
+
+    # -- outputs ------------------------------------------------------------------
+
+    def pressure_now(self, now: float) -> PressureNow:
+        if not self.use_gauge:
+            p = self.values["pressure"]
+            return PressureNow(p, p, "manual", False, "manual", None if p is not None else "no pressure typed")
+        r = self.latest.get(self.pressure_channel, now)
+        if r is None:
+            return PressureNow(None, None, "waiting", False, self.pressure_channel, "no reading from the gauge yet")
+        if not r.usable:
+            why = {
+                Status.STALE: f"gauge reading is stale (older than {self.latest.stale_after.get(r.channel):g} s)",
+                Status.LOST: "gauge lost",
+                Status.OVER_RANGE: "gauge over range",
+                Status.UNDER_RANGE: "gauge under range",
+                Status.SENSOR_ERROR: "gauge reports a sensor error",
+                Status.GARBLED: "gauge answer garbled",
+            }.get(r.status, str(r.status))
+            return PressureNow(None, r.value, str(r.status), False, r.channel, why)
+        value, approx = self.corrected(r)
+        return PressureNow(value, r.value, str(r.status), approx, r.channel, None)
+
+    def point(self, now: float) -> tuple[OperatingPoint | None, PressureNow]:
+        p = self.pressure_now(now)
+        if p.value is None:
+            return None, p
+        return OperatingPoint(p.value, self.values["gap"], self.values["voltage"], self.values["temperature"]), p
+
+    def view(self, now: float | None = None) -> View:
+        """The forecast now, or why it is withdrawn; logs changes."""
+        now = self.clock() if now is None else now
+        point, p = self.point(now)
+        f = None if point is None else forecast(point, self.bench)
+        withdrawn = p.withdrawn
+        self._log_changes(now, f, withdrawn)
+        return View(p, f, withdrawn)
+
+    def _log_changes(self, now: float, f: Forecast | None, withdrawn: str | None) -> None:
+        flags = {} if f is None else {x.code: x for x in f.flags}
+        if self.logbook is not None:
+            for code, x in flags.items():
+                old = self._flags.get(code)
+                if old is None or old.level != x.level:
+                    self.logbook.write("flag", code=code, level=x.level, reason=x.reason, change="raised")
+            for code, x in self._flags.items():
+                if code not in flags:
+                    self.logbook.write("flag", code=code, level=x.level, reason=x.reason, change="cleared")
+        self._flags = flags
+        ll = None if f is None else f.load_line
+        key = (
+            withdrawn,
+            None if f is None or f.breakdown_voltage is None else round(f.breakdown_voltage),
+            None if f is None else f.worst,
+            None if ll is None else ll.regime,
+        )
+        if self.logbook is not None and (key != self._summary or now - self._summary_at >= self.heartbeat):
+            self._summary, self._summary_at = key, now
+            rec = {"withdrawn": withdrawn}
+            if f is not None:
+                rec |= {
+                    "pressure_Pa": f.pressure,
+                    "gap_m": f.gap,
+                    "voltage_V": f.voltage,
+                    "breakdown_V": f.breakdown_voltage,
+                    "margin_V": f.margin,
+                    "strikes": f.strikes,
+                    "branch": f.branch,
+                    "regime": None if ll is None else ll.regime,
+                    "worst": f.worst,
+                }
+            self.logbook.write("forecast", **rec)
+
+    def mark_strike(self, note: str = "") -> StrikeMark | str:
+        """Record that the operator saw ignition now; returns the mark or why it cannot."""
+        now = self.clock()
+        point, p = self.point(now)
+        if point is None:
+            return f"cannot mark a strike: {p.withdrawn}"
+        voltage = point.voltage
+        vr = next((c for c in self.channels.values() if c.quantity == "voltage"), None)
+        if vr is not None:
+            r = self.latest.get(vr.name, now)
+            if r is not None and r.usable and r.value > 0:
+                voltage = r.value  # the supply's read-back is what was across the gap
+        if voltage is None:
+            return "cannot mark a strike: no voltage set (type one, e.g. 600V)"
+        mark = StrikeMark(self.wall(), point.pressure, point.gap, voltage, point.gas_temperature, p.source, note)
+        self.strikes.append(mark)
+        if self.logbook is not None:
+            self.logbook.write(
+                "strike",
+                pressure_Pa=mark.pressure,
+                gap_m=mark.gap,
+                voltage_V=mark.voltage,
+                gas_temperature_K=mark.gas_temperature,
+                pressure_source=mark.source,
+                gas=self.bench.gas.key,
+                cathode=self.bench.cathode.key,
+                note=note,
+            )
+        return mark
