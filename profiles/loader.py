@@ -73,7 +73,9 @@ class _Table:
         self.data: dict[str, Any] = data
 
     def fail(self, key: str, problem: str) -> ProfileError:
-        return ProfileError(f"{self.file}: [{self.where}] {key}: {problem}")
+        shown = key if key and key.isprintable() and key.strip() == key else repr(key)
+        where = f"[{self.where}] " if self.where else ""
+        return ProfileError(" ".join(f"{self.file}: {where}{shown}: {problem}".split()))
 
     def only(self, allowed: Iterable[str]) -> None:
         allowed = tuple(allowed)

@@ -1,7 +1,6 @@
 """The session: stale and lost readings withdraw the forecast; typed values; strike marks."""
 
 import pytest
-
 from strikeline.drivers.reading import Reading, Status
 from strikeline.profiles.loader import load_bench
 from strikeline.tui.session import Session, StrikeMark

@@ -147,7 +147,7 @@ def logbook_figures(hours: float = 8.0, rate_hz: float = 10.0) -> dict[str, floa
         def __call__(self):
             return self.t
 
-    clock, wall = Clock(), Clock()
+    clock = Clock()
     sc = Scenario()
     with tempfile.TemporaryDirectory() as tmp:
         path = Path(tmp) / "shift.jsonl"
