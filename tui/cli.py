@@ -73,6 +73,25 @@ def build_parser() -> argparse.ArgumentParser:
             help="gas temperature, e.g. '300 K' or '20 C'",
         )
 
+    lv = sub.add_parser(
+        "live",
+        help="the live tuning screen",
+        description=(
+            "The live tuning screen: where the bench sits on its breakdown curve as pressure and gap change, "
+            "read from the bench's instruments, typed by hand (--manual), simulated (--sim) or replayed from a "
+            "logbook (--replay). Every session is logged. Press ? on the screen for the keys."
+        ),
+        epilog=SAFETY,
+    )
+    lv.add_argument("--bench", metavar="FILE", default="demo", help="bench profile (.toml), or 'demo' (default)")
+    lv.add_argument("--manual", action="store_true", help="no instruments: type pressure, gap and voltage")
+    lv.add_argument("--sim", action="store_true", help="read the simulated bench instead of the profile's ports")
+    lv.add_argument("--replay", metavar="PATH", help="play a logbook back through the screen")
+    lv.add_argument("--speed", type=float, default=1.0, help="replay speed: 1 its own pace, 10 ten times faster")
+    lv.add_argument("--log", metavar="PATH", help="logbook file (default: a new file in the user data folder)")
+    lv.add_argument("--no-log", action="store_true", help="keep no logbook for this session")
+    lv.add_argument("--units", choices=("SI", "mbar", "Torr"), default="SI", help="units shown at start")
+
     s = sub.add_parser(
         "strike",
         help="forecast one operating point",
@@ -192,6 +211,58 @@ def _bench_for(args: argparse.Namespace, *, need_gap: bool):
             raise UsageError(f"strikeline {args.verb}: --temperature {args.temperature:g} K: give 20 K to 3000 K")
         bench = replace(bench, gas_temperature=args.temperature)
     return bench
+
+
+def _sim_ports(profile):
+    """The built-in simulated controller, aimed at this bench's setpoint and supply."""
+    from dataclasses import replace as _replace
+
+    from ..profiles.loader import load_bench
+
+    demo = load_bench("demo")
+    b = profile.bench
+    volts = b.supply.open_circuit_voltage if b.supply else 1200.0
+    ports = []
+    for port in demo.ports:
+        url = f"simbench://{b.name}?seed=1&gauge_factor=1.6&setpoint={b.pressure or 20.0:g}&voltage={volts:g}"
+        ports.append(_replace(port, url=url))
+    return _replace(profile, ports=tuple(ports), gauges=demo.gauges)
+
+
+def cmd_live(args: argparse.Namespace) -> int:
+    from ..drivers.logbook import read_logbook
+    from ..profiles.loader import load_bench
+    from .app import make_app
+
+    if not sys.stdout.isatty():
+        raise UsageError("strikeline live: needs a terminal (for scripts use strike, gauge or record)")
+    if args.speed < 0:
+        raise UsageError(f"strikeline live: --speed {args.speed:g}: give 0 (as fast as possible) or more")
+    profile = load_bench(args.bench)
+    replay = None
+    if args.replay:
+        try:
+            log = read_logbook(args.replay)
+        except OSError as e:
+            raise UsageError(f"strikeline live: --replay {args.replay!r}: cannot be read ({e.strerror or e})") from None
+        replay = log.records
+        if not any(r.get("kind") == "reading" for r in replay):
+            raise UsageError(f"strikeline live: --replay {args.replay!r}: no readings in this logbook")
+    if args.sim:
+        profile = _sim_ports(profile)
+    app = make_app(
+        profile,
+        manual=args.manual,
+        replay=replay,
+        speed=args.speed,
+        log_path=Path(args.log) if args.log else None,
+        log=not args.no_log,
+        units=args.units,
+    )
+    app.run()
+    if app.session.logbook is not None:
+        print(f"strikeline: logbook {app.session.logbook.path}", file=sys.stderr)
+    return 0
 
 
 def cmd_strike(args: argparse.Namespace) -> int:
@@ -402,6 +473,7 @@ def cmd_log(args: argparse.Namespace) -> int:
 
 
 VERBS = {
+    "live": cmd_live,
     "strike": cmd_strike,
     "curve": cmd_curve,
     "gauge": cmd_gauge,
@@ -439,9 +511,11 @@ def main(argv: Sequence[str] | None = None) -> int:
     argv = _join_negative_values(list(sys.argv[1:] if argv is None else argv))
     verb = next((a for a in argv if a in VERBS), None)
     try:
-        # With no arguments strikeline shows the built-in demo bench, so a new user sees the
-        # whole job at once.
-        args = build_parser().parse_args(argv or ["strike", "--bench", "demo"])
+        # With no arguments strikeline opens the screen on the built-in demo bench, so a new
+        # user sees the whole job at once (or prints its forecast when not on a terminal).
+        if not argv:
+            argv = ["live"] if sys.stdout.isatty() and sys.stdin.isatty() else ["strike", "--bench", "demo"]
+        args = build_parser().parse_args(argv)
         if args.verb is None:
             raise UsageError("strikeline: name a verb: strike, curve or gases (see strikeline --help)")
         return VERBS[args.verb](args)

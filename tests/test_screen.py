@@ -1,0 +1,173 @@
+"""The live screen, headless through the one app factory (Textual run_test + Pilot)."""
+
+import math
+
+import pytest
+from strikeline.drivers.reading import Reading, Status
+from strikeline.model.bench import OperatingPoint
+from strikeline.model.forecast import forecast
+from strikeline.profiles.loader import load_bench
+from strikeline.tui.app import Fresh, make_app
+
+pytestmark = pytest.mark.timeout(60)
+
+
+class Clock:
+    def __init__(self, t=100.0):
+        self.t = t
+
+    def __call__(self):
+        return self.t
+
+
+def text_of(app, widget_id: str) -> str:
+    content = app.query_one(f"#{widget_id}").content
+    return content.plain if hasattr(content, "plain") else str(content)
+
+
+def screen_text(app) -> str:
+    return "\n".join(text_of(app, w) for w in ("title", "channels", "readouts", "flags", "message"))
+
+
+def reading(value, t, status=Status.OK, channel="chamber", quantity="pressure"):
+    return Reading(channel, quantity, value, status, str(value), t, 1.8e9 + t, "simulated")
+
+
+async def test_demo_start_shows_live_simulated_values(tmp_path):
+    app = make_app(load_bench("demo"), log_path=tmp_path / "s.jsonl", show_caution=False)
+    async with app.run_test(size=(80, 24)) as pilot:
+        for _ in range(100):
+            await pilot.pause(0.05)
+            if "SIM" in text_of(app, "channels") and "Pa" in text_of(app, "readouts"):
+                break
+        assert "chamber SIM" in text_of(app, "channels")
+        assert "indicated" in text_of(app, "readouts")
+    assert (tmp_path / "s.jsonl").read_text().count('"kind":"reading"') > 0  # the session was logged
+
+
+async def test_typing_a_pressure_gives_the_models_breakdown_voltage():
+    profile = load_bench("demo")
+    app = make_app(profile, manual=True, log=False, show_caution=False)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("p")
+        await pilot.press(*"25 Pa", "enter")
+        await pilot.pause()
+        b = profile.bench
+        expected = forecast(OperatingPoint(25.0, b.gap, b.supply.open_circuit_voltage, b.gas_temperature), b)
+        assert f"{expected.breakdown_voltage:.0f} V" in text_of(app, "readouts")
+        assert "25.0 Pa" in text_of(app, "readouts")
+        assert app.session.values["pressure"] == 25.0
+
+
+async def test_nudge_keys_move_the_selected_value():
+    app = make_app(load_bench("demo"), manual=True, log=False, show_caution=False)
+    async with app.run_test(size=(80, 24)) as pilot:
+        p0 = app.session.values["pressure"]
+        await pilot.press("up")
+        assert app.session.values["pressure"] == pytest.approx(p0 * 1.02)
+        await pilot.press("pagedown")
+        assert app.session.values["pressure"] == pytest.approx(p0 * 1.02 / 1.25)
+        await pilot.press("right", "up")  # now the gap
+        assert app.session.values["gap"] == pytest.approx(0.03 * 1.02)
+        assert ">gap" in text_of(app, "readouts")
+
+
+async def test_a_reading_reaches_the_readout_and_stale_or_lost_withdraws_it():
+    clock = Clock(100.0)
+    app = make_app(load_bench("demo"), log=False, show_caution=False, clock=clock, start_sources=False)
+    async with app.run_test(size=(80, 24)) as pilot:
+        app.session.handle(reading(12.5, 100.0))  # indicated 12.5 Pa of argon on a thermal gauge
+        app.post_message(Fresh(0.0))
+        await pilot.pause()
+        assert "20.0 Pa gas-corr." in text_of(app, "readouts") and "12.5 Pa" in text_of(app, "readouts")
+        clock.t = 101.5  # the demo's channel goes stale after 1 s
+        app.refresh_view()
+        await pilot.pause()
+        assert "WITHDRAWN" in text_of(app, "readouts") and "stale" in text_of(app, "readouts")
+        assert "chamber STALE" in text_of(app, "channels")
+        assert "breakdown" in text_of(app, "readouts") and " V (" not in text_of(app, "readouts")
+        app.session.handle(reading(None, 101.6, Status.LOST))
+        app.post_message(Fresh(0.0))
+        await pilot.pause()
+        assert "gauge lost" in text_of(app, "readouts") and "chamber LOST" in text_of(app, "channels")
+        app.session.handle(reading(12.5, 101.7))
+        app.post_message(Fresh(0.0))
+        await pilot.pause()
+        assert "WITHDRAWN" not in text_of(app, "readouts")
+
+
+async def test_mark_strike_records_a_point(tmp_path):
+    app = make_app(load_bench("demo"), manual=True, log_path=tmp_path / "m.jsonl", show_caution=False)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("s")
+        await pilot.pause()
+        assert len(app.session.strikes) == 1
+        assert "strike marked" in text_of(app, "message")
+    assert '"kind":"strike"' in (tmp_path / "m.jsonl").read_text()
+
+
+async def test_bad_input_keeps_the_old_value_and_explains():
+    app = make_app(load_bench("demo"), manual=True, log=False, show_caution=False)
+    async with app.run_test(size=(80, 24)) as pilot:
+        before = app.session.values["gap"]
+        await pilot.press("g", *"25", "enter")
+        await pilot.pause()
+        msg = text_of(app, "message")
+        assert "kept the old gap" in msg and "needs a unit" in msg and "e.g." in msg
+        assert app.session.values["gap"] == before
+        await pilot.press("G", *"unobtainium", "enter")
+        await pilot.pause()
+        assert "unknown" in text_of(app, "message") and app.session.bench.gas.key == "argon"
+
+
+@pytest.mark.parametrize("size", [(80, 24), (72, 21), (60, 20), (120, 40)])
+async def test_every_readout_label_is_shown_whole(size):
+    app = make_app(load_bench("demo"), manual=True, log=False, show_caution=False)
+    async with app.run_test(size=size) as pilot:
+        await pilot.pause()
+        text = text_of(app, "readouts")
+        for label in ("pressure", "gap", "supply", "pd", "breakdown", "margin", "gain", "E/N", "branch", "glow"):
+            assert label in text
+        region = app.query_one("#readouts").region
+        assert region.right <= size[0] and region.bottom <= size[1] and region.height >= 11
+        assert app.query_one("#channels").region.bottom <= size[1]
+        footer = app.query_one("Footer").region
+        assert footer.bottom == size[1]  # nothing pushed off the screen
+
+
+async def test_units_help_and_cautions():
+    app = make_app(load_bench("demo"), manual=True, log=False, show_caution=True)
+    async with app.run_test(size=(80, 24)) as pilot:
+        assert app.screen.__class__.__name__ == "CautionScreen"
+        await pilot.press("enter")
+        await pilot.press("u")
+        assert "mbar" in text_of(app, "readouts")
+        await pilot.press("u")
+        assert "mTorr" in text_of(app, "readouts") and "Torr cm" in text_of(app, "readouts")
+        await pilot.press("question_mark")
+        assert app.screen.__class__.__name__ == "HelpScreen"
+        await pilot.press("escape")
+        await pilot.press("space")
+        assert "PAUSED" in text_of(app, "title")
+
+
+async def test_the_curve_is_drawn():
+    app = make_app(load_bench("demo"), manual=True, log=False, show_caution=False)
+    async with app.run_test(size=(100, 30)) as pilot:
+        app._plot_dirty = True
+        app.redraw_plot()
+        await pilot.pause()
+        plot = text_of(app, "plot")
+        assert "pd [Pa m]" in plot and "@" in plot and "m" in plot
+
+
+def test_nothing_is_nan_on_screen_for_a_no_breakdown_point():
+    from strikeline.tui.readouts import readout_lines
+    from strikeline.tui.session import Session
+
+    s = Session(load_bench("demo"), manual=True)
+    s.set_value("pressure", "1 Pa")
+    v = s.view(0.0)
+    text = " ".join(value for _, value, _ in readout_lines(v, "SI", "pressure", s.values["gap"], s.values["voltage"]))
+    assert "nan" not in text.lower() and "none at any voltage" in text
+    assert math.isfinite(s.values["pressure"])

@@ -1,0 +1,117 @@
+"""The breakdown-curve picture, drawn with plotext behind one function of ours.
+
+``curve_picture`` takes plain numbers and returns text with ANSI colour codes, so the
+screen never touches plotext itself and the backend can change in one place. plotext
+keeps one global figure; this module is its only user and clears it every time.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+__all__ = ["LEGEND", "CurveInputs", "curve_picture"]
+
+LEGEND = "·V_b ⣿strikes ─supply @now m min x fit"
+"""The picture's key (plotext's own legend does not fit small plots)."""
+
+
+@dataclass(frozen=True)
+class CurveInputs:
+    """What the picture shows (x in the display's pd unit, y in V)."""
+
+    pd: tuple[float, ...]
+    vb: tuple[float, ...]
+    """NaN where no breakdown."""
+    point: tuple[float, float] | None
+    """(pd, V_b) of the operating point; V_b may be NaN."""
+    minimum: tuple[float, float]
+    supply: float | None
+    fitted: tuple[tuple[float, ...], tuple[float, ...], tuple[float, ...], tuple[float, ...]] | None = None
+    """(pd, V_b, low, high) of a fitted bench curve and its band."""
+    pd_unit: str = "Pa m"
+    width: int = 40
+    height: int = 12
+    colour: bool = True
+
+
+def _ticks(lo: float, hi: float) -> tuple[list[float], list[str]]:
+    """1-2-5 ticks between lo and hi on a log axis."""
+    vals: list[float] = []
+    for e in range(math.floor(math.log10(lo)) - 1, math.ceil(math.log10(hi)) + 1):
+        for m in (1, 2, 5):
+            v = m * 10.0**e
+            if lo <= v <= hi:
+                vals.append(v)
+    if len(vals) > 6:
+        vals = [v for v in vals if round(v / 10 ** math.floor(math.log10(v))) == 1] or vals[::2]
+    return vals, [_short(v) for v in vals]
+
+
+def _short(v: float) -> str:
+    if v >= 1e3:
+        return f"{v / 1e3:g}k"
+    if v >= 1:
+        return f"{v:g}"
+    return f"{v:.0e}".replace("e-0", "e-")
+
+
+def curve_picture(c: CurveInputs) -> str:
+    """The picture as text (ANSI colours unless ``c.colour`` is False).
+
+    Both axes are logarithmic: log10 values are drawn on linear axes with 1-2-5 tick labels,
+    which plotext handles more predictably than its own log scale with fixed limits.
+    """
+    import plotext as plt
+
+    plt.clear_figure()
+    plt.plotsize(max(c.width, 20), max(c.height, 6))
+    plt.theme("pro" if c.colour else "clear")
+    x = np.asarray(c.pd, dtype=float)
+    y = np.asarray(c.vb, dtype=float)
+    ok = np.isfinite(y) & (y > 0)
+    if not ok.any():
+        return "no breakdown anywhere on this range"
+    lx = np.log10(x)
+
+    def line(mask, values, marker, colour):
+        # One plotext series per contiguous run, so separate runs are not joined up.
+        idx = np.flatnonzero(mask)
+        for run in np.split(idx, np.flatnonzero(np.diff(idx) > 1) + 1):
+            if run.size:
+                plt.plot(list(lx[run]), list(np.log10(values[run])), marker=marker, color=colour)
+
+    ys = [y[ok]]
+    if c.supply is not None and c.supply > 0:
+        strikes = ok & (y <= c.supply)
+        line(ok & ~strikes, y, "dot", "cyan")
+        line(strikes, y, "braille", "green")
+        plt.hline(math.log10(c.supply), "yellow")
+        ys.append(np.array([c.supply]))
+    else:
+        line(ok, y, "dot", "cyan")
+    if c.fitted is not None:
+        fx, fy, flo, fhi = (np.asarray(a, dtype=float) for a in c.fitted)
+        for values, marker in ((fy, "x"), (flo, "dot"), (fhi, "dot")):
+            g = np.isfinite(values) & (values > 0)
+            if g.any():
+                plt.scatter(list(np.log10(fx[g])), list(np.log10(values[g])), marker=marker, color="magenta")
+                ys.append(values[g])
+    plt.scatter([math.log10(c.minimum[0])], [math.log10(c.minimum[1])], marker="m", color="white")
+    if c.point is not None and math.isfinite(c.point[1]) and c.point[1] > 0:
+        plt.scatter([math.log10(c.point[0])], [math.log10(c.point[1])], marker="@", color="red")
+    elif c.point is not None and c.point[0] > 0:
+        plt.vline(math.log10(c.point[0]), "red")
+    allv = np.concatenate(ys)
+    v_lo = float(np.min(allv)) * 0.8
+    v_hi = min(float(np.max(allv)) * 1.25, v_lo * 1e4)
+    plt.ylim(math.log10(v_lo), math.log10(v_hi))
+    plt.xlim(float(lx[0]), float(lx[-1]))
+    yv, yl = _ticks(v_lo, v_hi)
+    xv, xl = _ticks(float(x[0]), float(x[-1]))
+    plt.yticks([math.log10(v) for v in yv], yl)
+    plt.xticks([math.log10(v) for v in xv], xl)
+    plt.xlabel(f"pd [{c.pd_unit}]")
+    return plt.build()

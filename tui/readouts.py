@@ -1,0 +1,155 @@
+"""Text of the screen's panels, built from a Session view (no Textual here: plain strings).
+
+Every state is spelled out in words (LIVE, STALE, LOST, WITHDRAWN, DANGER...) so the screen
+reads the same on a monochrome terminal or with NO_COLOR.
+"""
+
+from __future__ import annotations
+
+from ..drivers.reading import Reading
+from ..model.forecast import Forecast
+from ..model.units import convert, format_value
+from .session import View
+from .text import UNIT_SYSTEMS, pd_text
+
+__all__ = ["LEVEL_WORD", "channel_line", "flag_lines", "readout_lines", "sparkline"]
+
+LEVEL_WORD = {"ok": "ok", "watch": "WATCH", "danger": "DANGER"}
+_STATUS_WORD = {
+    "ok": "LIVE",
+    "stale": "STALE",
+    "lost": "LOST",
+    "over_range": "OVER RANGE",
+    "under_range": "UNDER RANGE",
+    "sensor_error": "SENSOR ERROR",
+    "garbled": "GARBLED",
+}
+NUDGE_FIELDS = ("pressure", "gap", "voltage")
+
+
+def _v(x: float | None, unit: str = "V") -> str:
+    return "none" if x is None else format_value(x, "voltage", unit)
+
+
+def _amps(i: float) -> str:
+    return f"{i:.3g} A" if i >= 1 else f"{i * 1e3:.3g} mA"
+
+
+def readout_lines(
+    view: View, system: str, selected: str, manual_gap: float, voltage: float | None
+) -> list[tuple[str, str, str]]:
+    """(label, value, style) rows of the readouts panel; style is "", "bad", "warn" or "good"."""
+    pu, lu, _ = UNIT_SYSTEMS[system]
+    p = view.pressure
+    mark = {name: (">" if selected == name else " ") for name in NUDGE_FIELDS}
+    rows: list[tuple[str, str, str]] = []
+    if p.value is not None:
+        if p.approximate:
+            tag = " approx."  # outside the gauge's linear range, or no factor for this gas
+        elif p.source != "manual" and p.indicated != p.value:
+            tag = " gas-corr."
+        else:
+            tag = ""
+        rows.append((f"{mark['pressure']}pressure", format_value(p.value, "pressure", pu) + tag, ""))
+    else:
+        shown = "-" if p.indicated is None else format_value(p.indicated, "pressure", pu)
+        rows.append((f"{mark['pressure']}pressure", f"{shown} {p.status.upper()}", "bad"))
+    if p.source == "manual":
+        rows.append(("  source", "typed (manual)", ""))
+    else:
+        ind = "-" if p.indicated is None else format_value(p.indicated, "pressure", pu)
+        rows.append(("  indicated", f"{ind} ({p.source})", ""))
+    rows.append((f"{mark['gap']}gap", format_value(manual_gap, "length", lu), ""))
+    rows.append((f"{mark['voltage']}supply", _v(voltage), ""))
+    f = view.forecast
+    if f is None:
+        rows.append(("FORECAST", "WITHDRAWN", "bad"))
+        rows.append(("  why", view.withdrawn or "", "bad"))
+        for label in ("pd", "breakdown", "margin", "gain", "E/N", "branch", "glow"):
+            rows.append((label, "--", ""))
+        return rows
+    rows.append(("pd", pd_text(f.pd, system), ""))
+    if f.breakdown_voltage is None:
+        rows.append(("breakdown", "none at any voltage", "warn"))
+    else:
+        lo, hi = f.breakdown_band
+        band = "" if lo is None or hi is None else f" ({lo:.0f}-{hi:.0f})"
+        rows.append(("breakdown", f"{f.breakdown_voltage:.0f} V{band}", ""))
+    if f.margin is None:
+        rows.append(("margin", "none", "warn"))
+    else:
+        rows.append(("margin", f"{f.margin:+.0f} V {f.margin_fraction:+.0%}", "good" if f.strikes else "warn"))
+    if f.alpha_d is not None:
+        gain = f"{f.gain:.3g}" if f.gain is not None and f.gain < 1e300 else ">1e300"
+        rows.append(("gain", f"{gain} (alpha d {f.alpha_d:.3g})", ""))
+        rows.append(("E/N", f"{f.E_over_N_Td:.3g} Td", ""))
+    else:
+        rows.append(("gain", "-- (no voltage)", ""))
+        rows.append(("E/N", "--", ""))
+    side = {"left": "left of minimum", "right": "right of minimum", "none": "left of asymptote"}[f.branch]
+    rows.append(("branch", side, ""))
+    ll = f.load_line
+    if ll is None:
+        rows.append(("glow", "no strike" if not f.strikes else "no supply data", ""))
+    else:
+        rows.append(
+            ("glow", f"{ll.regime.replace('_', ' ')} {_amps(ll.current)}", "bad" if ll.regime == "arc_risk" else "")
+        )
+    return rows
+
+
+def channel_line(readings: dict[str, Reading], paused: bool, manual: bool, replay: bool) -> list[tuple[str, str]]:
+    """(text, style) pieces of the instrument status bar."""
+    parts: list[tuple[str, str]] = []
+    if paused:
+        parts.append(("PAUSED", "warn"))
+    if replay:
+        parts.append(("REPLAY", "warn"))
+    if manual:
+        parts.append(("pressure MANUAL", ""))
+    for name, r in readings.items():
+        word = _STATUS_WORD.get(str(r.status), str(r.status).upper())
+        if r.source == "simulated" and word == "LIVE":
+            word = "SIM"
+        style = "" if str(r.status) == "ok" else "bad"
+        parts.append((f"{name} {word}", style))
+    if not parts:
+        parts.append(("no instruments: manual entry", ""))
+    return parts
+
+
+def flag_lines(f: Forecast | None) -> list[tuple[str, str, str]]:
+    """(level word, code, reason) of the flags, worst first."""
+    if f is None:
+        return []
+    order = {"danger": 0, "watch": 1, "ok": 2}
+    return [(LEVEL_WORD[x.level], x.code, x.reason) for x in sorted(f.flags, key=lambda x: order[x.level])]
+
+
+_BARS = "▁▂▃▄▅▆▇█"
+
+
+def sparkline(values: list[float | None], width: int, log: bool = True) -> str:
+    """A one-line history (missing values as spaces), newest on the right."""
+    import math
+
+    vals = values[-width:]
+    good = [v for v in vals if v is not None and v > 0]
+    if not good:
+        return " " * len(vals)
+    f = math.log10 if log else (lambda v: v)
+    lo, hi = f(min(good)), f(max(good))
+    span = hi - lo or 1.0
+    out = []
+    for v in vals:
+        if v is None or v <= 0:
+            out.append(" ")
+        else:
+            out.append(_BARS[min(int((f(v) - lo) / span * (len(_BARS) - 1) + 0.5), len(_BARS) - 1)])
+    return "".join(out)
+
+
+def pd_display(pd_si: float, system: str) -> float:
+    """pd in the unit system's pd unit (for the picture's axis)."""
+    pu, lu = UNIT_SYSTEMS[system][2]
+    return convert(pd_si, "pressure", pu) * convert(1.0, "length", lu)
