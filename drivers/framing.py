@@ -126,7 +126,7 @@ class ChannelSpec:
     encoding: str = "ascii"
 
 
-class RejectedLine(Exception):  # noqa: N818 - a verdict on a line, not an error
+class RejectedLine(Exception):
     """A line that is not a reading of this channel (the reason is the message)."""
 
 

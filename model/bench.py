@@ -178,6 +178,12 @@ class BenchCurve:
     cathode: str
     fitted_on: str
     """ISO date of the fit."""
+    residual_scale: float = 0.0
+    """Scatter of single strikes about the curve, in ln V (a fraction)."""
+    t_quantile: float = 1.96
+    """Student-t quantile of the stated prediction band (95 %)."""
+    free: tuple[str, ...] = ("A", "B")
+    """Which of A, B, gamma were fitted."""
 
 
 @dataclass(frozen=True)

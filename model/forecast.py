@@ -8,14 +8,15 @@ method behind it. Pure: no files, clocks or I/O; SI in and out.
 from __future__ import annotations
 
 import math
-from dataclasses import asdict, dataclass, field
+from dataclasses import asdict, dataclass, field, replace
 from typing import Any
 
 import numpy as np
 from scipy import constants as _c
 
 from . import afterglow, glow, paschen, townsend
-from .bench import Bench, OperatingPoint
+from .bench import Bench, BenchCurve, OperatingPoint, Yield
+from .calibration import prediction_band
 
 __all__ = ["LEVELS", "Afterglow", "Flag", "Forecast", "StrayResult", "forecast"]
 
@@ -134,7 +135,10 @@ class Forecast:
     hall_parameter: float | None = None
     """omega_ce / nu_m at the cathode (None: unmagnetised)."""
     breakdown_band: tuple[float | None, float | None] = (None, None)
-    """V_b's plausible range (V) from the gamma range and the constants' own uncertainty."""
+    """V_b's plausible range (V): the gamma range and the constants' own uncertainty, or the
+    bench curve's 95 % prediction band."""
+    band_source: str = ""
+    """What the band is made of, in words."""
     margin_fraction: float | None = None
     """(V - V_b) / V_b."""
     stray_gaps: tuple[StrayResult, ...] = ()
@@ -190,6 +194,7 @@ class Forecast:
                 "strikes": self.strikes,
             }
         out["breakdown_band_V"] = list(self.breakdown_band)
+        out["breakdown_band_source"] = self.band_source
         if self.effective_pressure is not None:
             out["magnetised"] = {
                 "effective_pressure_Pa": self.effective_pressure,
@@ -263,15 +268,31 @@ def _magnetised(point: OperatingPoint, bench: Bench) -> tuple[float, float | Non
     return point.pressure * math.sqrt(1.0 + hall * hall), hall
 
 
+def _with_curve(bench: Bench) -> tuple[Bench, BenchCurve | None]:
+    """The bench with its fitted curve's A, B, gamma in place of the textbook ones, where the
+    curve was fitted for this gas and cathode."""
+    cv = bench.curve
+    if cv is None or cv.gas != bench.gas.key or cv.cathode != bench.cathode.key:
+        return bench, None
+    source = f"bench curve fitted {cv.fitted_on} from {cv.n_points} strikes (rms {cv.rms_residual:.0f} V)"
+    c = replace(bench.gas.constants, A=cv.A, B=cv.B, source=source)
+    return replace(bench, gas=replace(bench.gas, constants=c), gamma=cv.gamma), cv
+
+
 def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
     """Forecast breakdown and its risks for ``point`` on ``bench``.
 
     The voltage considered is ``point.voltage``, else the bench supply's open-circuit
-    voltage, else none (breakdown only).
+    voltage, else none (breakdown only). A bench curve fitted for this gas and cathode
+    replaces the textbook constants, and its prediction band replaces their uncertainty.
     """
+    bench, cv = _with_curve(bench)
     gas = bench.gas
     c = gas.constants
     y = bench.yield_()
+    if cv is not None:
+        spread = cv.t_quantile * cv.gamma_sigma
+        y = Yield(cv.gamma, max(cv.gamma - spread, 1e-6), min(cv.gamma + spread, 1.0), c.source)
     gamma = y.value
     T = point.gas_temperature
     scale = c.reference_temperature / T  # reduced pd = pd * scale
@@ -308,6 +329,13 @@ def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
     v_lo, _ = _breakdown(rpd, bench, y.high)
     v_hi, _ = _breakdown(rpd, bench, y.low)
     band = (None if v_lo is None else v_lo * (1 - u), None if v_hi is None else v_hi * (1 + u))
+    band_source = f"gamma range and +/-{u:.0%} for the constants"
+    if cv is not None and weight < 0.5:
+        band_source = "bench curve's 95 % prediction band"
+        _v, lo_b, hi_b = prediction_band(cv, rpd)
+        band = (_opt(lo_b[0]), _opt(hi_b[0]))
+        u = None
+        flags += _curve_flags(cv, rpd)
 
     result: dict[str, Any] = {}
     V = point.voltage
@@ -370,6 +398,7 @@ def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
         effective_pressure=None if hall is None else p_eff,
         hall_parameter=hall,
         breakdown_band=band,
+        band_source=band_source,
         stray_gaps=strays,
         load_line=load,
         afterglow=after,
@@ -428,14 +457,38 @@ def _validity_flags(rpd, vb, weight, e_over_p, pd0, scale, p_eff, point, bench) 
     return flags
 
 
+def _curve_flags(cv: BenchCurve, rpd: float) -> list[Flag]:
+    flags = [
+        Flag(
+            "bench_curve",
+            "ok",
+            f"using this bench's curve (fitted {cv.fitted_on} to {cv.n_points} strikes, rms {cv.rms_residual:.0f} V) "
+            "in place of the textbook constants",
+            "least-squares fit of Paschen's law to the bench's strike marks",
+        )
+    ]
+    if not cv.pd_low / 1.5 <= rpd <= cv.pd_high * 1.5:
+        flags.append(
+            Flag(
+                "outside_fitted_range",
+                "watch",
+                f"pd {rpd:.3g} Pa m is outside the {cv.pd_low:.3g}-{cv.pd_high:.3g} Pa m the bench curve was fitted "
+                "over: extrapolated; record strikes here",
+                "least-squares fit of Paschen's law to the bench's strike marks",
+            )
+        )
+    return flags
+
+
 def _margin_flags(V, vb, band, law, u) -> list[Flag]:
     if vb is None:
         return []
-    method = (
-        f"Paschen's law; V_b band from the gamma range and +/-{u:.0%} for the constants"
-        if law == "paschen"
-        else f"uniform-field law for air, +/-{u:.0%}"
-    )
+    if u is None:
+        method = "bench curve and its 95 % prediction band"
+    elif law == "paschen":
+        method = f"Paschen's law; V_b band from the gamma range and +/-{u:.0%} for the constants"
+    else:
+        method = f"uniform-field law for air, +/-{u:.0%}"
     lo, hi = band
     if V >= vb and (hi is None or V >= hi):
         return [

@@ -11,6 +11,7 @@ from __future__ import annotations
 import math
 import os
 import re
+import tempfile
 import tomllib
 from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field, replace
@@ -27,6 +28,7 @@ from ..drivers.reading import QUANTITIES, Status
 from ..model import units
 from ..model.bench import (
     Bench,
+    BenchCurve,
     Cathode,
     Chamber,
     Gas,
@@ -367,7 +369,26 @@ _BENCH_FIELDS = (
     "cathode_area",
     "magnetic_field",
 )
-_SECTIONS = ("bench", "supply", "stray_gap", "chamber", "port")
+_SECTIONS = ("bench", "supply", "stray_gap", "chamber", "port", "curve")
+_CURVE_FIELDS = (
+    "gas",
+    "cathode",
+    "fitted_on",
+    "n_points",
+    "free",
+    "A_per_Pa_m",
+    "B_V_per_Pa_m",
+    "gamma",
+    "A_sigma",
+    "B_sigma",
+    "gamma_sigma",
+    "covariance_ln",
+    "residual_scale",
+    "t_quantile",
+    "rms_residual_V",
+    "pd_low_Pa_m",
+    "pd_high_Pa_m",
+)
 _PORT_FIELDS = (
     "name",
     "url",
@@ -465,6 +486,7 @@ def parse_bench(text: str, label: str, path: Path | None) -> BenchProfile:
         c.only(("radius", "length"))
         chamber = Chamber(c.quantity("radius", "length", 1e-3, 10.0), c.quantity("length", "length", 1e-3, 10.0))
     ports, gauges = _ports(raw, label, gas)
+    curve = _curve(top.sub("curve"), gas, cathode)
     bench = Bench(
         name=b.string("name", default=path.stem if path else label),
         gas=gas,
@@ -478,9 +500,118 @@ def parse_bench(text: str, label: str, path: Path | None) -> BenchProfile:
         stray_gaps=tuple(stray),
         chamber=chamber,
         pressure=b.quantity("pressure", "pressure", 1e-6, 1e6, required=False),
+        curve=curve,
     )
     description = b.string("description", default="") if b.has("description") else ""
     return BenchProfile(bench, path, label, description, raw, ports, gauges)
+
+
+def _curve(t: _Table | None, gas: Gas, cathode: Cathode) -> BenchCurve | None:
+    """The fitted bench curve, as ``strikeline fit --save`` writes it."""
+    if t is None:
+        return None
+    t.only(_CURVE_FIELDS)
+    try:
+        fitted_gas, fitted_cathode = find_gas(t.string("gas")), find_cathode(t.string("cathode"))
+    except ProfileError as e:
+        raise ProfileError(f"{t.file}: [curve] {e}") from None
+    if fitted_gas.key != gas.key or fitted_cathode.key != cathode.key:
+        raise t.fail(
+            "gas",
+            f"the curve was fitted for {fitted_gas.key} on {fitted_cathode.key}, but the bench is {gas.key} on "
+            f"{cathode.key}: refit it, or delete the [curve] section",
+        )
+    cov = t.data.get("covariance_ln")
+    ok = (
+        isinstance(cov, list)
+        and len(cov) == 3
+        and all(
+            isinstance(r, list) and len(r) == 3 and all(isinstance(x, int | float) and math.isfinite(x) for x in r)
+            for r in cov
+        )
+    )
+    if not ok:
+        raise t.fail("covariance_ln", "is not a 3 x 3 list of numbers")
+    free = t.data.get("free", ["A", "B"])
+    if not isinstance(free, list) or not set(free) <= {"A", "B", "gamma"}:
+        raise t.fail("free", f"{free!r} is not a list drawn from A, B, gamma")
+    return BenchCurve(
+        A=t.number("A_per_Pa_m", 1e-3, 1e4),
+        B=t.number("B_V_per_Pa_m", 1e-1, 1e5),
+        gamma=t.number("gamma", 1e-6, 1.0),
+        A_sigma=t.number("A_sigma", 0, 1e6),
+        B_sigma=t.number("B_sigma", 0, 1e7),
+        gamma_sigma=t.number("gamma_sigma", 0, 10),
+        covariance=tuple(tuple(float(x) for x in r) for r in cov),
+        rms_residual=t.number("rms_residual_V", 0, 1e6),
+        n_points=int(t.number("n_points", 1, 1e6)),
+        pd_low=t.number("pd_low_Pa_m", 1e-9, 1e6),
+        pd_high=t.number("pd_high_Pa_m", 1e-9, 1e6),
+        gas=gas.key,
+        cathode=cathode.key,
+        fitted_on=t.string("fitted_on"),
+        residual_scale=t.number("residual_scale", 0, 10),
+        t_quantile=t.number("t_quantile", 0.5, 1000),
+        free=tuple(free),
+    )
+
+
+def curve_toml(c: BenchCurve) -> str:
+    """The ``[curve]`` section for a fitted bench curve."""
+    cov = ", ".join("[" + ", ".join(repr(x) for x in row) + "]" for row in c.covariance)
+    return (
+        "[curve]\n"
+        "# Fitted by strikeline fit: Paschen's law on this bench's strike marks. Do not edit by hand.\n"
+        f'gas = "{c.gas}"\ncathode = "{c.cathode}"\nfitted_on = "{c.fitted_on}"\nn_points = {c.n_points}\n'
+        f"free = [{', '.join(repr(p).replace(chr(39), chr(34)) for p in c.free)}]\n"
+        f"A_per_Pa_m = {c.A!r}\nB_V_per_Pa_m = {c.B!r}\ngamma = {c.gamma!r}\n"
+        f"A_sigma = {c.A_sigma!r}\nB_sigma = {c.B_sigma!r}\ngamma_sigma = {c.gamma_sigma!r}\n"
+        f"covariance_ln = [{cov}]\nresidual_scale = {c.residual_scale!r}\nt_quantile = {c.t_quantile!r}\n"
+        f"rms_residual_V = {c.rms_residual!r}\npd_low_Pa_m = {c.pd_low!r}\npd_high_Pa_m = {c.pd_high!r}\n"
+    )
+
+
+def save_curve(path: str | os.PathLike[str], curve: BenchCurve) -> BenchProfile:
+    """Put ``curve`` into the bench file at ``path`` (replacing any [curve] section), keeping
+    the rest of the file as written. The result is validated before an atomic write."""
+    ref = os.fspath(path)
+    if ref in BUILTIN_BENCHES:
+        raise ProfileError(f"bench {ref!r} is built in and cannot be changed; copy it to a file and save there")
+    p = Path(ref).expanduser()
+    try:
+        text = p.read_text(encoding="utf-8")
+    except OSError as e:
+        raise ProfileError(f"bench {ref!r}: cannot be read ({e.strerror or e})") from None
+    kept: list[str] = []
+    skipping = False
+    for line in text.splitlines():
+        stripped = line.strip()
+        if stripped.startswith("["):
+            skipping = stripped.replace(" ", "") == "[curve]"
+        if not skipping:
+            kept.append(line)
+    new = "\n".join(kept).rstrip() + "\n\n" + curve_toml(curve)
+    profile = parse_bench(new, str(p), p)  # never write a file that would not load
+    try:
+        write_atomic(p, new)
+    except OSError as e:
+        raise ProfileError(f"bench {ref!r}: cannot be written ({e.strerror or e}); the file is unchanged") from None
+    return profile
+
+
+def write_atomic(path: Path, text: str) -> None:
+    """Write ``text`` through a temporary file in the same folder and a rename, so a crash
+    leaves the old file or the new one, never half of either."""
+    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8") as f:
+            f.write(text)
+            f.flush()
+            os.fsync(f.fileno())
+        os.replace(tmp, path)
+    except BaseException:
+        Path(tmp).unlink(missing_ok=True)
+        raise
 
 
 @cache

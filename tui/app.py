@@ -12,6 +12,7 @@ import math
 import time
 from collections import deque
 from collections.abc import Callable
+from dataclasses import replace
 from pathlib import Path
 from typing import Any
 
@@ -29,6 +30,7 @@ from ..drivers.hub import Instruments
 from ..drivers.logbook import Logbook, ReplaySource
 from ..drivers.reading import Reading
 from ..model import paschen
+from ..model.calibration import FitRefused, prediction_band
 from ..model.forecast import curve
 from ..profiles.loader import BenchProfile
 from .plot import LEGEND, CurveInputs, curve_picture
@@ -154,6 +156,119 @@ class FlagsScreen(ModalScreen[None]):
         with Vertical(id="help-box"):
             yield Static(t)
             yield Static("Escape closes.", id="caution-hint")
+
+
+class CalibrationScreen(ModalScreen[None]):
+    """Fit this bench's curve to the session's strike marks; accept, save or discard."""
+
+    BINDINGS = [
+        Binding("1", "free('A,B')", "fit A,B"),
+        Binding("2", "free('B,gamma')", "fit B,gamma"),
+        Binding("3", "free('gamma')", "fit gamma"),
+        Binding("a", "accept", "accept"),
+        Binding("w", "write", "save to bench file"),
+        Binding("escape,k", "dismiss", "discard"),
+    ]
+
+    def __init__(self, main: StrikelineApp):
+        super().__init__()
+        self.main = main
+        self.free = "A,B"
+        self.cal = None
+
+    def compose(self) -> ComposeResult:
+        with Vertical(id="calib-box"):
+            yield Static(id="calib-text")
+            yield Static(id="calib-plot")
+            yield Static(
+                "1 fit A,B   2 fit B,gamma   3 fit gamma   a accept   w save to the bench file   Escape discard",
+                id="caution-hint",
+            )
+
+    def on_mount(self) -> None:
+        self.refit()
+
+    def refit(self) -> None:
+        from .calibrate import calibrate, calibration_text, parse_free
+
+        s = self.main.session
+        marks = s.strikes
+        text = self.query_one("#calib-text", Static)
+        pts = [(m.pressure, m.gap, m.voltage, m.gas_temperature) for m in marks]
+        labels = [f"mark {i + 1}" for i in range(len(marks))]
+        try:
+            self.cal = calibrate(replace(s.bench, curve=None), pts, labels, parse_free(self.free))
+        except FitRefused as e:
+            self.cal = None
+            text.update(Text(f"{len(marks)} strike marks this session (s marks one).\nfit {self.free}: refused: {e}"))
+            return
+        text.update(Text(calibration_text(self.cal)))
+        self.draw()
+
+    def draw(self) -> None:
+        if self.cal is None:
+            return
+        b = self.main.session.bench
+        c = b.gas.constants
+        pd_min, v_min = paschen.minimum(c.A, c.B, b.yield_().value)
+        lo, hi = min(self.cal.pd) / 3, max(self.cal.pd) * 3
+        rpd = np.geomspace(lo, hi, 120)
+        vb, _w = curve(rpd, replace(b, curve=None))
+        fv, flo, fhi = prediction_band(self.cal.result.curve, rpd)
+        w = self.query_one("#calib-plot").size.width or 70
+        self.query_one("#calib-plot", Static).update(
+            Text.from_ansi(
+                curve_picture(
+                    CurveInputs(
+                        pd=tuple(rpd),
+                        vb=tuple(vb),
+                        point=None,
+                        minimum=(pd_min, v_min),
+                        supply=None,
+                        fitted=(tuple(rpd), tuple(fv), tuple(flo), tuple(fhi)),
+                        marks=tuple(zip(self.cal.pd, self.cal.voltage, strict=True)),
+                        pd_unit="Pa m (reduced)",
+                        width=max(w - 2, 30),
+                        height=12,
+                        colour=not self.main.no_color,
+                    )
+                )
+            )
+        )
+
+    def action_free(self, free: str) -> None:
+        self.free = free
+        self.refit()
+
+    def action_accept(self) -> None:
+        if self.cal is None:
+            self.main._note("nothing to accept: the fit was refused", error=True)
+            return
+        self.main.use_curve(self.cal.result.curve)
+        self.dismiss()
+
+    def action_write(self) -> None:
+        from ..profiles.loader import ProfileError, save_curve
+
+        if self.cal is None:
+            self.main._note("nothing to save: the fit was refused", error=True)
+            return
+        path = self.main.session.profile.path
+        if path is None:
+            self.main._note(
+                "this bench is built in: copy it to a file to save a curve (accepted for this session)", error=True
+            )
+            self.main.use_curve(self.cal.result.curve)
+            self.dismiss()
+            return
+        try:
+            save_curve(path, self.cal.result.curve)
+        except ProfileError as e:
+            self.main._note(str(e), error=True)
+            return
+        self.main.use_curve(self.cal.result.curve)
+        self.main._note(f"bench curve saved into {path}")
+        self.dismiss()
 
 
 class StrikelineApp(App[None]):
@@ -470,7 +585,19 @@ class StrikelineApp(App[None]):
         )
 
     def _fitted(self, rpd, k, to_x):
-        return None
+        cv = self.session.bench.curve
+        b = self.session.bench
+        if cv is None or cv.gas != b.gas.key or cv.cathode != b.cathode.key:
+            return None
+        v, lo, hi = prediction_band(cv, rpd)
+        return tuple(rpd / k * to_x), tuple(v), tuple(lo), tuple(hi)
+
+    def use_curve(self, cv) -> None:
+        """Forecast with this bench curve from now on (this session)."""
+        self.session.use_curve(cv)
+        self._plot_dirty = True
+        self._event(f"bench curve in use: {cv.n_points} strikes, rms {cv.rms_residual:.0f} V")
+        self.refresh_view()
 
     def redraw_plot(self) -> None:
         inputs = self._plot_inputs()
@@ -574,7 +701,7 @@ class StrikelineApp(App[None]):
         self.push_screen(HelpScreen())
 
     def action_calibrate(self) -> None:
-        self._note("calibration view: not available in this build", error=True)
+        self.push_screen(CalibrationScreen(self))
 
 
 def _caution_marker() -> Path:

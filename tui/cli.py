@@ -163,6 +163,24 @@ def build_parser() -> argparse.ArgumentParser:
     )
     r.add_argument("--log", metavar="PATH", help="logbook file (default: a new file in the user data folder)")
 
+    ft = sub.add_parser(
+        "fit",
+        help="fit this bench's breakdown curve to recorded strikes",
+        description=(
+            "Fit Paschen's law to strikes recorded on this bench (CSV with pressure, gap and voltage columns; "
+            "units in the header or the cells). A and gamma only appear together in the law, so fit A,B "
+            "(default) or B,gamma. --save writes the curve into a bench profile; strike and the screen then use it."
+        ),
+        epilog=SAFETY,
+    )
+    ft.add_argument("points", metavar="POINTS.csv", help="strike points (strikeline log --strikes writes one)")
+    ft.add_argument("--bench", metavar="FILE", help="take gas, cathode and gas temperature from this bench")
+    ft.add_argument("--gas", help="gas name or symbol (default: the bench's)")
+    ft.add_argument("--cathode", help="cathode metal (default: the bench's)")
+    ft.add_argument("--free", default="A,B", help="which of A, B, gamma to fit (default A,B)")
+    ft.add_argument("--save", metavar="BENCH", help="write the fitted curve into this bench profile")
+    ft.add_argument("--json", action="store_true", help="print the fit as JSON (SI units)")
+
     lg = sub.add_parser(
         "log",
         help="summarise a logbook",
@@ -445,6 +463,39 @@ def cmd_record(args: argparse.Namespace) -> int:
     return 0 if book.error is None else 1
 
 
+def cmd_fit(args: argparse.Namespace) -> int:
+    from ..model.calibration import FitRefused
+    from ..profiles.loader import save_curve
+    from ..profiles.strikes import read_strike_csv
+    from .calibrate import calibrate, calibration_json, calibration_text, parse_free
+
+    args.gamma = None
+    args.temperature = None
+    bench = _bench_for(args, need_gap=False)
+    try:
+        free = parse_free(args.free)
+        table = read_strike_csv(args.points)
+    except ValueError as e:
+        raise UsageError(f"strikeline fit: {e}") from None
+    if not table.points:
+        raise UsageError(f"strikeline fit: {args.points!r}: no usable rows ({'; '.join(table.problems) or 'empty'})")
+    pts = [(p.pressure, p.gap, p.voltage, p.temperature) for p in table.points]
+    labels = [f"line {p.line}" for p in table.points]
+    try:
+        cal = calibrate(bench, pts, labels, free)
+    except FitRefused as e:
+        raise UsageError(f"strikeline fit: refused: {e}") from None
+    print(
+        json.dumps(calibration_json(cal, table.problems), indent=2)
+        if args.json
+        else calibration_text(cal, table.problems)
+    )
+    if args.save:
+        save_curve(args.save, cal.result.curve)
+        print(f"strikeline fit: bench curve saved into {args.save}", file=sys.stderr)
+    return 0
+
+
 def cmd_log(args: argparse.Namespace) -> int:
     import csv
 
@@ -478,6 +529,7 @@ VERBS = {
     "curve": cmd_curve,
     "gauge": cmd_gauge,
     "record": cmd_record,
+    "fit": cmd_fit,
     "log": cmd_log,
     "gases": cmd_gases,
 }

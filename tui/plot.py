@@ -14,7 +14,7 @@ import numpy as np
 
 __all__ = ["LEGEND", "CurveInputs", "curve_picture"]
 
-LEGEND = "·V_b ⣿strikes ─supply @now m min x fit"
+LEGEND = "·V_b ⣿strikes ─supply @now m min x fit +mark"
 """The picture's key (plotext's own legend does not fit small plots)."""
 
 
@@ -31,6 +31,8 @@ class CurveInputs:
     supply: float | None
     fitted: tuple[tuple[float, ...], tuple[float, ...], tuple[float, ...], tuple[float, ...]] | None = None
     """(pd, V_b, low, high) of a fitted bench curve and its band."""
+    marks: tuple[tuple[float, float], ...] = ()
+    """Recorded strikes (pd, V)."""
     pd_unit: str = "Pa m"
     width: int = 40
     height: int = 12
@@ -99,6 +101,11 @@ def curve_picture(c: CurveInputs) -> str:
             if g.any():
                 plt.scatter(list(np.log10(fx[g])), list(np.log10(values[g])), marker=marker, color="magenta")
                 ys.append(values[g])
+    if c.marks:
+        mx = [math.log10(a) for a, b in c.marks if a > 0 and b > 0]
+        my = [math.log10(b) for a, b in c.marks if a > 0 and b > 0]
+        plt.scatter(mx, my, marker="+", color="yellow")
+        ys.append(np.array([b for _, b in c.marks if b > 0]))
     plt.scatter([math.log10(c.minimum[0])], [math.log10(c.minimum[1])], marker="m", color="white")
     if c.point is not None and math.isfinite(c.point[1]) and c.point[1] > 0:
         plt.scatter([math.log10(c.point[0])], [math.log10(c.point[1])], marker="@", color="red")

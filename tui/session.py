@@ -195,6 +195,12 @@ class Session:
         self._entry("cathode", name, True, "")
         return None
 
+    def use_curve(self, curve) -> None:
+        """Forecast with a fitted bench curve from now on (None: the textbook constants)."""
+        self.bench = replace(self.bench, curve=curve)
+        text = "textbook" if curve is None else f"fitted {curve.fitted_on}, {curve.n_points} strikes"
+        self._entry("bench curve", text, True, "")
+
     def _entry(self, name: str, text: str, accepted: bool, message: str) -> None:
         if self.logbook is not None:
             self.logbook.write("entry", field=name, text=text, accepted=accepted, message=message)

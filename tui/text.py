@@ -91,8 +91,7 @@ def forecast_text(f: Forecast, system: str = "SI") -> str:
         rows.append(
             (
                 "breakdown band",
-                f"{'?' if lo is None else f'{lo:.0f}'} to {'?' if hi is None else f'{hi:.0f}'} V"
-                " (gamma range and the constants' uncertainty)",
+                f"{'?' if lo is None else f'{lo:.0f}'} to {'?' if hi is None else f'{hi:.0f}'} V ({f.band_source})",
             )
         )
     for g in f.stray_gaps:

@@ -22,6 +22,7 @@ BUDGETS = {
     "poll_latency_ms_p50": ("<=", 5.0),
     "max_poll_hz": (">=", 200.0),
     "eight_hour_rss_growth_MB": ("<=", 10.0),
+    "fit_200_points_s": ("<=", 0.2),
 }
 
 
@@ -121,6 +122,20 @@ def poll_figures(seconds: float = 2.0) -> dict[str, float]:
     }
 
 
+def fit_figures() -> dict[str, float]:
+    """Time to fit A, B to 200 strike marks (scipy imported beforehand, as in a running session)."""
+    import scipy.optimize  # noqa: F401 - import cost is start-up's, not the fit's
+    import scipy.stats  # noqa: F401
+    from strikeline.model import paschen
+    from strikeline.model.calibration import fit_curve
+
+    rng = np.random.default_rng(0)
+    pd = np.geomspace(0.45, 20, 200)
+    v = paschen.breakdown_voltage(pd, 7.0, 150.0, 0.07) * np.exp(rng.normal(0, 0.03, 200))
+    t = _best(lambda: fit_curve(pd, v, A=9.0, B=135.0, gamma=0.07, free=("A", "B")), 5)
+    return {"fit_200_points_s": t}
+
+
 def _rss_mb() -> float:
     with open("/proc/self/status") as f:
         for line in f:
@@ -196,6 +211,7 @@ def main(argv: list[str] | None = None) -> int:
     figures: dict[str, float] = {}
     figures |= curve_figures()
     figures |= poll_figures()
+    figures |= fit_figures()
     figures |= logbook_figures()
     verdicts = {}
     for key, (op, budget) in BUDGETS.items():
