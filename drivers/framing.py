@@ -16,7 +16,7 @@ from dataclasses import dataclass, field
 
 from .reading import Reading, Status
 
-__all__ = ["Analog", "ChannelSpec", "ChannelParser", "FrameStats", "LineFramer", "RejectedLine"]
+__all__ = ["Analog", "ChannelParser", "ChannelSpec", "FrameStats", "LineFramer", "PortSpec", "RejectedLine"]
 
 
 @dataclass
@@ -124,6 +124,31 @@ class ChannelSpec:
     stale_after: float | None = None
     """Seconds after which a reading is stale."""
     encoding: str = "ascii"
+
+
+@dataclass(frozen=True)
+class PortSpec:
+    """One port and the channels read through it (built from a bench profile)."""
+
+    name: str
+    url: str
+    channels: tuple[ChannelSpec, ...]
+    mode: str = "polled"
+    """"polled" (send each channel's query, read the answer) or "streaming"."""
+    baudrate: int = 9600
+    bytesize: int = 8
+    parity: str = "N"
+    stopbits: float = 1
+    terminator: bytes = b"\r\n"
+    poll_interval: float = 0.5
+    """s between polling rounds."""
+    timeout: float = 0.5
+    """s to wait for an answer."""
+    lost_after: int = 3
+    """Consecutive unanswered polls after which a channel is reported lost."""
+    max_line: int = 256
+    source: str = "serial"
+    """How readings from this port are labelled ("serial" or "simulated")."""
 
 
 class RejectedLine(Exception):

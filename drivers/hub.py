@@ -9,9 +9,13 @@ from __future__ import annotations
 import threading
 import time
 from collections.abc import Callable, Iterable, Sequence
+from typing import TYPE_CHECKING
 
-from .port import Emit, Event, PortReader, PortSpec
 from .reading import Reading, Status
+
+if TYPE_CHECKING:  # pyserial loads only when instruments are started
+    from .framing import PortSpec
+    from .port import Emit, Event
 
 __all__ = ["Instruments", "Latest", "manual_reading"]
 
@@ -59,6 +63,8 @@ class Instruments:
         clock: Callable[[], float] = time.monotonic,
         wall: Callable[[], float] = time.time,
     ):
+        from .port import PortReader
+
         self.readers = [PortReader(p, emit, on_event, clock=clock, wall=wall) for p in ports]
 
     @property

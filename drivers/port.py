@@ -15,11 +15,10 @@ from __future__ import annotations
 import threading
 import time
 from collections.abc import Callable
-from dataclasses import dataclass
 
 import serial
 
-from .framing import ChannelParser, ChannelSpec, FrameStats, LineFramer, RejectedLine
+from .framing import ChannelParser, FrameStats, LineFramer, PortSpec, RejectedLine
 from .reading import Reading, Status
 
 __all__ = ["PortReader", "PortSpec", "register_url_handlers"]
@@ -31,31 +30,6 @@ def register_url_handlers() -> None:
     """Let ``serial_for_url`` open our own URL schemes (``simbench://``)."""
     if _HANDLERS not in serial.protocol_handler_packages:
         serial.protocol_handler_packages.append(_HANDLERS)
-
-
-@dataclass(frozen=True)
-class PortSpec:
-    """One port and the channels read through it (built from a bench profile)."""
-
-    name: str
-    url: str
-    channels: tuple[ChannelSpec, ...]
-    mode: str = "polled"
-    """"polled" (send each channel's query, read the answer) or "streaming"."""
-    baudrate: int = 9600
-    bytesize: int = 8
-    parity: str = "N"
-    stopbits: float = 1
-    terminator: bytes = b"\r\n"
-    poll_interval: float = 0.5
-    """s between polling rounds."""
-    timeout: float = 0.5
-    """s to wait for an answer."""
-    lost_after: int = 3
-    """Consecutive unanswered polls after which a channel is reported lost."""
-    max_line: int = 256
-    source: str = "serial"
-    """How readings from this port are labelled ("serial" or "simulated")."""
 
 
 Emit = Callable[[Reading], None]

@@ -12,9 +12,9 @@ from dataclasses import asdict, dataclass, field, replace
 from typing import Any
 
 import numpy as np
-from scipy import constants as _c
 
 from . import afterglow, glow, paschen, townsend
+from . import constants as _c
 from .bench import Bench, BenchCurve, OperatingPoint, Yield
 from .calibration import prediction_band
 

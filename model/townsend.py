@@ -8,7 +8,8 @@ from __future__ import annotations
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
-from scipy import constants as _c
+
+from . import constants as _c
 
 __all__ = [
     "TOWNSEND",

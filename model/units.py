@@ -19,7 +19,7 @@ import math
 import re
 from dataclasses import dataclass
 
-from scipy import constants as _c
+from . import constants as _c
 
 __all__ = [
     "KINDS",

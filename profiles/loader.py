@@ -20,11 +20,9 @@ from importlib import resources
 from pathlib import Path
 from typing import Any
 
-from scipy import constants as _c
-
-from ..drivers.framing import Analog, ChannelSpec
-from ..drivers.port import PortSpec
+from ..drivers.framing import Analog, ChannelSpec, PortSpec
 from ..drivers.reading import QUANTITIES, Status
+from ..model import constants as _c
 from ..model import units
 from ..model.bench import (
     Bench,

@@ -71,3 +71,10 @@ def test_cli_start_up_defers_heavy_imports():
     # `strikeline --help` must not pay for textual or scipy.optimize.
     loaded = _loaded_after_import("strikeline.tui.cli")
     assert "textual" not in loaded and "scipy.optimize" not in loaded
+
+
+def test_screen_start_up_leaves_scipy_out():
+    # scipy costs about as much to import as Textual itself; the screen's first frame must not
+    # wait for it (fits and the inverse branches import it when used).
+    loaded = _loaded_after_import("strikeline.tui.app")
+    assert not any(m == "scipy" or m.startswith("scipy.") for m in loaded)

@@ -34,3 +34,18 @@ def test_installed_package_runs_from_any_folder(tmp_path):
 def test_top_level_is_as_specified():
     for name in ("README.md", "DEVELOPERS.md", "pyproject.toml", "tui", "model", "drivers", "tests", "profiles", ".ci"):
         assert (ROOT / name).exists(), name
+
+
+def test_every_package_folder_is_installed():
+    # A subpackage missing from pyproject works in an editable checkout and vanishes from a
+    # real install (it happened to drivers/urlhandler, the demo's simulated gauge).
+    import tomllib
+
+    cfg = tomllib.loads((ROOT / "pyproject.toml").read_text())["tool"]["setuptools"]
+    listed = {cfg["package-dir"][p] for p in cfg["packages"]}
+    found = {
+        str(init.parent.relative_to(ROOT))
+        for top in ("model", "drivers", "profiles", "tui")
+        for init in (ROOT / top).rglob("__init__.py")
+    }
+    assert found == listed

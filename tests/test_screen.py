@@ -21,6 +21,8 @@ class Clock:
 
 
 def text_of(app, widget_id: str) -> str:
+    if widget_id == "readouts":
+        return app.readouts_text()
     content = app.query_one(f"#{widget_id}").content
     return content.plain if hasattr(content, "plain") else str(content)
 
@@ -131,7 +133,7 @@ async def test_every_readout_label_is_shown_whole(size):
         region = app.query_one("#readouts").region
         assert region.right <= size[0] and region.bottom <= size[1] and region.height >= 11
         assert app.query_one("#channels").region.bottom <= size[1]
-        footer = app.query_one("Footer").region
+        footer = app.query_one("#keys").region
         assert footer.bottom == size[1]  # nothing pushed off the screen
 
 

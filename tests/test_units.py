@@ -122,3 +122,33 @@ def test_fuzz_pd_parser(text):
         pass
     else:
         assert math.isfinite(v) and v > 0
+
+
+@pytest.mark.parametrize(
+    "name",
+    [
+        "kilo",
+        "mega",
+        "centi",
+        "milli",
+        "micro",
+        "nano",
+        "atm",
+        "bar",
+        "torr",
+        "mmHg",
+        "inch",
+        "psi",
+        "k",
+        "e",
+        "m_e",
+        "zero_Celsius",
+    ],
+)
+def test_model_constants_equal_scipy_constants(name):
+    # The model writes the SI definitions itself (scipy.constants is too slow to import on the
+    # screen's start-up path); each must equal scipy.constants' value. m_e is measured (CODATA),
+    # so it is held to 1e-9.
+    from strikeline.model import constants as ours
+
+    assert getattr(ours, name) == pytest.approx(getattr(constants, name), rel=1e-9 if name == "m_e" else 1e-15)

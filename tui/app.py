@@ -18,15 +18,13 @@ from typing import Any
 
 import numpy as np
 from rich.text import Text
-from textual import on
 from textual.app import App, ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
 from textual.message import Message
 from textual.screen import ModalScreen
-from textual.widgets import Footer, Input, Static
+from textual.widgets import Static
 
-from ..drivers.hub import Instruments
 from ..drivers.logbook import Logbook, ReplaySource
 from ..drivers.reading import Reading
 from ..model import paschen
@@ -51,6 +49,8 @@ CAUTION = (
 _STYLE = {"bad": "bold reverse", "warn": "bold", "good": "", "": ""}
 _LEVEL_STYLE = {"DANGER": "bold reverse red", "WATCH": "bold yellow", "ok": "green"}
 _FINE, _COARSE = 1.02, 1.25
+_READOUT_LINES = 11
+_FLAG_TEXT_INTERVAL = 1.0  # s: numbers inside flag reasons refresh this often; levels at once
 _PROMPTS = {
     "pressure": "pressure (true), e.g. 20 Pa, 150 mTorr, 0.2 mbar",
     "gap": "gap, e.g. 30 mm, 3 cm",
@@ -107,6 +107,9 @@ class CautionScreen(ModalScreen[None]):
             yield Static(CAUTION, id="caution-text")
             yield Static("Press Enter to continue.", id="caution-hint")
 
+
+KEY_HINTS = "p g v type  <> choose  ^v nudge  u units  space pause  s strike  d flags  k calib  ? help  q quit"
+"""The bottom line: the keys a technician needs most (every key is in the help screen)."""
 
 HELP_KEYS = [
     ("p g v t", "type pressure, gap, supply voltage, gas temperature (with units)"),
@@ -337,6 +340,8 @@ class StrikelineApp(App[None]):
         self._shown: dict[str, str] = {}
         self._plot_key: tuple | None = None
         self._plot_dirty = True
+        self._flag_levels: tuple | None = None
+        self._flags_at = -math.inf
 
     # -- layout -------------------------------------------------------------------
 
@@ -344,28 +349,34 @@ class StrikelineApp(App[None]):
         yield Static(id="title")
         yield Static(id="channels")
         with Horizontal(id="main"):
-            yield Static(id="readouts")
+            # One widget per line: a reading repaints only the lines whose text changed.
+            with Vertical(id="readouts"):
+                for i in range(_READOUT_LINES):
+                    yield Static(id=f"r{i}", classes="readout")
             yield Static(id="plot")
         yield Static(id="flags")
         yield Static(id="history")
         yield Static(id="events")
-        yield Input(id="entry")
         yield Static(id="message")
-        yield Footer()
+        yield Static(KEY_HINTS, id="keys")
 
     def on_mount(self) -> None:
         self.query_one("#plot").border_title = "breakdown curve"
         self.query_one("#plot").border_subtitle = LEGEND
-        self.query_one("#entry").display = False
         self._note(f"{self.mode} on {self.session.profile.label}; '?' for keys and cautions")
         self.refresh_view()
         self.set_interval(0.25, self.refresh_view)
         self.set_interval(self.plot_interval, self.redraw_plot)
         self.set_interval(1.0, self.sample_history)
         if self.source is not None:
-            self.source.start()
+            self.call_after_refresh(self._start_source)  # the first frame does not wait for ports
         if self.show_caution:
             self.push_screen(CautionScreen(), self._caution_seen)
+
+    def _start_source(self) -> None:
+        if callable(self.source) and not hasattr(self.source, "start"):
+            self.source = self.source()  # built on first use: pyserial loads after the first frame
+        self.source.start()
 
     def _caution_seen(self, _result=None) -> None:
         if self.caution_marker is not None:
@@ -376,7 +387,7 @@ class StrikelineApp(App[None]):
                 pass
 
     def on_unmount(self) -> None:
-        if self.source is not None:
+        if self.source is not None and hasattr(self.source, "stop"):
             self.source.stop()
         if self.session.logbook is not None:
             self.session.logbook.close()
@@ -414,7 +425,7 @@ class StrikelineApp(App[None]):
         key = content.plain + "|" + "".join(str(s.style) for s in content.spans)
         if self._shown.get(widget_id) != key:
             self._shown[widget_id] = key
-            self.query_one(f"#{widget_id}", Static).update(content)
+            self.query_one(f"#{widget_id}", Static).update(content, layout=False)  # fixed sizes: no relayout
 
     def refresh_view(self) -> None:
         if self.paused and self.view_ is not None:
@@ -457,16 +468,26 @@ class StrikelineApp(App[None]):
         rows = readout_lines(
             view, self.units, self.selected, self.session.values["gap"], self.session.values["voltage"]
         )
-        t = Text()
-        for i, (label, value, style) in enumerate(rows):
-            if i:
-                t.append("\n")
-            t.append(f"{label:<12}", style="bold" if label.startswith(">") else "")
-            t.append(value, style=_STYLE[style])
-        self._set("readouts", t)
+        for i in range(_READOUT_LINES):
+            t = Text(no_wrap=True, overflow="ellipsis")
+            if i < len(rows):
+                label, value, style = rows[i]
+                t.append(f"{label:<12}", style="bold" if label.startswith(">") else "")
+                t.append(value, style=_STYLE[style])
+            self._set(f"r{i}", t)
+
+    def readouts_text(self) -> str:
+        """The readouts as plain text (what the operator sees in that panel)."""
+        return "\n".join(self._shown.get(f"r{i}", "").split("|", 1)[0] for i in range(_READOUT_LINES))
 
     def _draw_flags(self, view, previous) -> None:
         rows = flag_lines(view.forecast)
+        levels = (view.withdrawn, tuple((level, code) for level, code, _ in rows))
+        now = self.clock()
+        if levels == self._flag_levels and now - self._flags_at < _FLAG_TEXT_INTERVAL:
+            self._flag_events(view, previous)
+            return
+        self._flag_levels, self._flags_at = levels, now
         t = Text(no_wrap=True, overflow="ellipsis")
         if view.forecast is None:
             t.append("WITHDRAWN ", style="bold reverse")
@@ -477,6 +498,9 @@ class StrikelineApp(App[None]):
             t.append(f"{level:<6} ", style=_LEVEL_STYLE.get(level, ""))
             t.append(f"{code}: {reason}")
         self._set("flags", t)
+        self._flag_events(view, previous)
+
+    def _flag_events(self, view, previous) -> None:
         if previous is not None and previous.forecast is not None and view.forecast is not None:
             old = {x.code: x.level for x in previous.forecast.flags if x.level != "ok"}
             new = {x.code: x.level for x in view.forecast.flags if x.level != "ok"}
@@ -610,17 +634,30 @@ class StrikelineApp(App[None]):
     def _note(self, text: str, error: bool = False) -> None:
         self.query_one("#message", Static).update(Text(text, style="bold reverse" if error else ""))
 
+    def _entry(self):
+        """The typing line, mounted the first time it is needed (its import and widget are not on
+        the first frame's path)."""
+        from textual.widgets import Input
+
+        found = self.query("#entry")
+        if found:
+            return found.first(Input)
+        entry = Input(id="entry")
+        self.mount(entry, before=self.query_one("#message"))
+        return entry
+
     def action_enter(self, field: str) -> None:
         self.entry_field = field
-        entry = self.query_one("#entry", Input)
+        entry = self._entry()
         entry.value = ""
         entry.placeholder = _PROMPTS[field]
         entry.display = True
         entry.focus()
         self._note(f"type the {field} and press Enter (Escape cancels)")
 
-    @on(Input.Submitted, "#entry")
-    def _submitted(self, event: Input.Submitted) -> None:
+    def on_input_submitted(self, event) -> None:
+        if event.input.id != "entry":
+            return
         field = self.entry_field
         text = event.value.strip()
         self.action_cancel(quiet=True)
@@ -640,7 +677,10 @@ class StrikelineApp(App[None]):
         self.refresh_view()
 
     def action_cancel(self, quiet: bool = False) -> None:
-        entry = self.query_one("#entry", Input)
+        found = self.query("#entry")
+        if not found:
+            return
+        entry = found.first()
         if entry.display:
             entry.display = False
             self.entry_field = None
@@ -770,7 +810,12 @@ def make_app(
         )
         mode = "replay"
     elif not manual and profile.ports and start_sources:
-        source = Instruments(profile.ports, on_reading, on_port)
+
+        def source():
+            from ..drivers.hub import Instruments
+
+            return Instruments(profile.ports, on_reading, on_port)
+
     marker = None
     if show_caution is None:  # first start for this user: show the cautions once
         marker = _caution_marker()

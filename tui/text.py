@@ -4,8 +4,7 @@ from __future__ import annotations
 
 from typing import Any
 
-from scipy import constants as _c
-
+from ..model import constants as _c
 from ..model.forecast import Forecast
 from ..model.units import format_value
 

@@ -23,7 +23,21 @@ BUDGETS = {
     "max_poll_hz": (">=", 200.0),
     "eight_hour_rss_growth_MB": ("<=", 10.0),
     "fit_200_points_s": ("<=", 0.2),
+    "reading_to_screen_ms_p50": ("<=", 50.0),
+    "reading_to_screen_ms_p95": ("<=", 100.0),
+    "live_cpu_percent": ("<=", 10.0),
+    "first_frame_vs_bare_textual": ("<=", 1.5),
+    "terminal_bytes_per_s": ("<=", 20_000.0),
 }
+
+_BARE_APP = """
+from textual.app import App
+from textual.widgets import Static
+class Bare(App):
+    def compose(self):
+        yield Static("bare textual frame")
+Bare().run()
+"""
 
 
 def _best(fn, repeats: int) -> float:
@@ -78,8 +92,8 @@ def poll_figures(seconds: float = 2.0) -> dict[str, float]:
 
     sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
     from fakes import PtyInstrument
-    from strikeline.drivers.framing import ChannelSpec
-    from strikeline.drivers.port import PortReader, PortSpec
+    from strikeline.drivers.framing import ChannelSpec, PortSpec
+    from strikeline.drivers.port import PortReader
     from strikeline.drivers.reading import Status
 
     written: list[float] = []
@@ -134,6 +148,127 @@ def fit_figures() -> dict[str, float]:
     v = paschen.breakdown_voltage(pd, 7.0, 150.0, 0.07) * np.exp(rng.normal(0, 0.03, 200))
     t = _best(lambda: fit_curve(pd, v, A=9.0, B=135.0, gamma=0.07, free=("A", "B")), 5)
     return {"fit_200_points_s": t}
+
+
+def _in_pty(argv: list[str], env: dict[str, str], seconds: float, until: bytes | None = None):
+    """Run ``argv`` on a fresh 80x24 pty; return (seconds to ``until`` on screen, bytes read after the
+    first 3 s, CPU seconds used after the first 3 s, measured span)."""
+    import fcntl
+    import os
+    import pty
+    import select
+    import struct
+    import subprocess
+    import termios
+
+    master, slave = pty.openpty()
+    fcntl.ioctl(slave, termios.TIOCSWINSZ, struct.pack("HHHH", 24, 80, 0, 0))
+    t0 = time.perf_counter()
+    proc = subprocess.Popen(argv, stdin=slave, stdout=slave, stderr=slave, env=env, close_fds=True)
+    os.close(slave)
+    seen = b""
+    first = None
+    counted = 0
+    cpu0 = None
+    t_mark = None
+    deadline = t0 + seconds
+    try:
+        while time.perf_counter() < deadline:
+            r, _, _ = select.select([master], [], [], 0.05)
+            now = time.perf_counter()
+            if r:
+                try:
+                    data = os.read(master, 65536)
+                except OSError:
+                    break
+                if first is None:
+                    seen += data
+                    if until is not None and until in seen:
+                        first = now - t0
+                if t_mark is not None:
+                    counted += len(data)
+            if t_mark is None and now - t0 >= 3.0:
+                t_mark = now
+                cpu0 = _cpu_seconds(proc.pid)
+            if until is not None and first is not None and seconds <= 0:
+                break
+        cpu = _cpu_seconds(proc.pid) - (cpu0 or 0.0)
+        span = time.perf_counter() - (t_mark or t0)
+    finally:
+        proc.terminate()
+        try:
+            proc.wait(5)
+        except subprocess.TimeoutExpired:
+            proc.kill()
+        os.close(master)
+    return first, counted, cpu, span
+
+
+def _cpu_seconds(pid: int) -> float:
+    import os
+
+    with open(f"/proc/{pid}/stat") as f:
+        fields = f.read().rsplit(")", 1)[1].split()
+    return (int(fields[11]) + int(fields[12])) / os.sysconf("SC_CLK_TCK")
+
+
+def screen_figures() -> dict[str, float]:
+    """The live screen as a technician runs it: a real process on an 80x24 pty, demo bench (10 Hz
+    simulated gauge, plot on), plus reading-to-readout latency at 20 Hz in-process."""
+    import asyncio
+    import os
+    import tempfile
+    from dataclasses import replace
+    from pathlib import Path
+
+    with tempfile.TemporaryDirectory() as tmp:
+        env = dict(
+            os.environ,
+            TERM="xterm-256color",
+            XDG_CONFIG_HOME=f"{tmp}/cfg",
+            XDG_DATA_HOME=f"{tmp}/data",
+            COLUMNS="80",
+            LINES="24",
+        )
+        marker = Path(tmp, "cfg", "strikeline", "cautions-shown")
+        marker.parent.mkdir(parents=True)
+        marker.write_text("benchmark\n")
+        live = [sys.executable, "-m", "strikeline.tui.cli", "live", "--bench", "demo"]
+        bare = [sys.executable, "-c", _BARE_APP]
+        firsts_live, firsts_bare = [], []
+        for _ in range(5):  # interleaved, median: start-up times wander with the machine's load
+            firsts_bare.append(_in_pty(bare, env, 10, b"bare textual frame")[0])
+            firsts_live.append(_in_pty(live, env, 10, b"breakdown")[0])
+        _, counted, cpu, span = _in_pty(live, env, 13.0)
+    live_first = float(np.median(firsts_live))
+    bare_first = float(np.median(firsts_bare))
+
+    from strikeline.profiles.loader import load_bench
+    from strikeline.tui.app import make_app
+
+    profile = load_bench("demo")
+    port = profile.ports[0]
+    fast = replace(port, poll_interval=0.05, channels=port.channels[:1])  # the gauge alone at 20 Hz
+    profile = replace(profile, ports=(fast,))
+    lat: list[float] = []
+
+    async def run():
+        app = make_app(profile, log=False, show_caution=False)
+        app.latency_probe = lambda t_sent: lat.append(time.perf_counter() - t_sent)
+        async with app.run_test(size=(80, 24)) as pilot:
+            await pilot.pause(10.0)
+
+    asyncio.run(run())
+    lat_ms = np.array(lat[20:]) * 1e3
+    return {
+        "reading_to_screen_ms_p50": float(np.median(lat_ms)),
+        "reading_to_screen_ms_p95": float(np.percentile(lat_ms, 95)),
+        "live_cpu_percent": 100.0 * cpu / span,
+        "first_frame_s": live_first,
+        "bare_textual_first_frame_s": bare_first,
+        "first_frame_vs_bare_textual": live_first / bare_first,
+        "terminal_bytes_per_s": counted / span,
+    }
 
 
 def _rss_mb() -> float:
@@ -212,6 +347,7 @@ def main(argv: list[str] | None = None) -> int:
     figures |= curve_figures()
     figures |= poll_figures()
     figures |= fit_figures()
+    figures |= screen_figures()
     figures |= logbook_figures()
     verdicts = {}
     for key, (op, budget) in BUDGETS.items():
