@@ -9,9 +9,9 @@ from __future__ import annotations
 from collections.abc import Mapping
 from dataclasses import dataclass, field
 
-from .paschen import TownsendConstants, UniformFieldLaw
-
 __all__ = [
+    "TownsendConstants",
+    "UniformFieldLaw",
     "Bench",
     "BenchCurve",
     "Cathode",
@@ -24,6 +24,53 @@ __all__ = [
     "Yield",
     "secondary_yield_estimate",
 ]
+
+
+@dataclass(frozen=True)
+class TownsendConstants:
+    """A published (or fitted) pair A, B for alpha/p = A exp(-B p/E), in SI."""
+
+    A: float
+    """Saturation ionisation coefficient per unit pressure, 1/(Pa m)."""
+    B: float
+    """Characteristic reduced field, V/(Pa m)."""
+    E_over_p_low: float
+    """Lower end of the E/p range the pair was fitted over, V/(Pa m)."""
+    E_over_p_high: float
+    """Upper end of that range, V/(Pa m)."""
+    reference_temperature: float
+    """Gas temperature, K, at which the tabulated pressures are taken."""
+    source: str
+    """Where the pair comes from."""
+
+
+@dataclass(frozen=True)
+class UniformFieldLaw:
+    """Empirical uniform-field breakdown law for air at high pd.
+
+    V_b = a x + b sqrt(x), x = delta d, delta = (p / p_ref)(T_ref / T)
+
+    With a = 24.22 kV/cm and b = 6.08 kV/cm^0.5 (as usually credited to Kuffel &
+    Zaengl, *High Voltage Engineering Fundamentals*). Constant-A, B Paschen curves
+    over-predict air breakdown here. Between ``blend_from`` and ``blend_to`` (in x)
+    the result moves smoothly from the Paschen value to this law.
+    """
+
+    a: float
+    """Linear coefficient, V/m."""
+    b: float
+    """Square-root coefficient, V/m^0.5."""
+    reference_pressure: float
+    """p_ref of delta, Pa."""
+    reference_temperature: float
+    """T_ref of delta, K."""
+    blend_from: float
+    """x (m) below which the Paschen law alone is used."""
+    blend_to: float
+    """x (m) above which this law alone is used."""
+    valid_to: float
+    """x (m) beyond which the law itself is not supported."""
+    source: str
 
 
 def secondary_yield_estimate(ionisation_energy: float, work_function: float) -> float:

@@ -33,10 +33,11 @@ from ..model.bench import (
     NormalGlow,
     StrayGap,
     Supply,
+    TownsendConstants,
+    UniformFieldLaw,
     Yield,
 )
 from ..model.gauges import GAUGE_KINDS, GaugeCorrection
-from ..model.paschen import TownsendConstants, UniformFieldLaw
 
 __all__ = [
     "BUILTIN_BENCHES",

@@ -16,7 +16,6 @@ from dataclasses import replace
 from pathlib import Path
 from typing import Any
 
-import numpy as np
 from rich.text import Text
 from textual.app import App, ComposeResult
 from textual.binding import Binding
@@ -27,11 +26,8 @@ from textual.widgets import Static
 
 from ..drivers.logbook import Logbook, ReplaySource
 from ..drivers.reading import Reading
-from ..model import paschen
-from ..model.calibration import FitRefused, prediction_band
-from ..model.forecast import curve
 from ..profiles.loader import BenchProfile
-from .plot import LEGEND, CurveInputs, curve_picture
+from .plot import LEGEND, CurveInputs
 from .readouts import NUDGE_FIELDS, channel_line, flag_lines, pd_display, readout_lines, sparkline
 from .session import Session, StrikeMark
 from .text import UNIT_SYSTEMS, iso_utc
@@ -192,6 +188,7 @@ class CalibrationScreen(ModalScreen[None]):
         self.refit()
 
     def refit(self) -> None:
+        from ..model.calibration import FitRefused
         from .calibrate import calibrate, calibration_text, parse_free
 
         s = self.main.session
@@ -209,6 +206,13 @@ class CalibrationScreen(ModalScreen[None]):
         self.draw()
 
     def draw(self) -> None:
+        import numpy as np
+
+        from ..model import paschen
+        from ..model.calibration import prediction_band
+        from ..model.forecast import curve
+        from .plot import curve_picture
+
         if self.cal is None:
             return
         b = self.main.session.bench
@@ -544,6 +548,12 @@ class StrikelineApp(App[None]):
         self._set("history", t)
 
     def _plot_inputs(self) -> CurveInputs | None:
+        # The numeric model loads with the first picture, not on the first frame's path.
+        import numpy as np
+
+        from ..model import paschen
+        from ..model.forecast import curve
+
         v = self.view_
         s = self.session
         b = s.bench
@@ -609,6 +619,8 @@ class StrikelineApp(App[None]):
         )
 
     def _fitted(self, rpd, k, to_x):
+        from ..model.calibration import prediction_band
+
         cv = self.session.bench.curve
         b = self.session.bench
         if cv is None or cv.gas != b.gas.key or cv.cathode != b.cathode.key:
@@ -624,6 +636,8 @@ class StrikelineApp(App[None]):
         self.refresh_view()
 
     def redraw_plot(self) -> None:
+        from .plot import curve_picture
+
         inputs = self._plot_inputs()
         if inputs is None:
             return

@@ -10,8 +10,6 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-import numpy as np
-
 __all__ = ["LEGEND", "CurveInputs", "curve_picture"]
 
 LEGEND = "·V_b ⣿strikes ─supply @now m min x fit +mark"
@@ -66,6 +64,7 @@ def curve_picture(c: CurveInputs) -> str:
     Both axes are logarithmic: log10 values are drawn on linear axes with 1-2-5 tick labels,
     which plotext handles more predictably than its own log scale with fixed limits.
     """
+    import numpy as np
     import plotext as plt
 
     plt.clear_figure()

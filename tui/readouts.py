@@ -6,11 +6,15 @@ reads the same on a monochrome terminal or with NO_COLOR.
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 from ..drivers.reading import Reading
-from ..model.forecast import Forecast
 from ..model.units import convert, format_value
 from .session import View
 from .text import UNIT_SYSTEMS, pd_text
+
+if TYPE_CHECKING:
+    from ..model.forecast import Forecast
 
 __all__ = ["LEVEL_WORD", "channel_line", "flag_lines", "readout_lines", "sparkline"]
 

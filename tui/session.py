@@ -11,15 +11,18 @@ from __future__ import annotations
 import time
 from collections.abc import Callable
 from dataclasses import dataclass, replace
+from typing import TYPE_CHECKING
 
 from ..drivers.hub import Latest
 from ..drivers.logbook import Logbook
 from ..drivers.reading import Reading, Status
 from ..model import units
 from ..model.bench import OperatingPoint
-from ..model.forecast import Flag, Forecast, forecast
 from ..model.gauges import correct
 from ..profiles.loader import BenchProfile, find_cathode, find_gas
+
+if TYPE_CHECKING:  # the numeric model loads with the first forecast, not with the screen
+    from ..model.forecast import Flag, Forecast
 
 __all__ = ["FIELDS", "PressureNow", "Session", "StrikeMark", "View"]
 
@@ -237,7 +240,11 @@ class Session:
         """The forecast now, or why it is withdrawn; logs changes."""
         now = self.clock() if now is None else now
         point, p = self.point(now)
-        f = None if point is None else forecast(point, self.bench)
+        f = None
+        if point is not None:
+            from ..model.forecast import forecast
+
+            f = forecast(point, self.bench)
         withdrawn = p.withdrawn
         self._log_changes(now, f, withdrawn)
         return View(p, f, withdrawn)

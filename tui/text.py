@@ -2,11 +2,13 @@
 
 from __future__ import annotations
 
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from ..model import constants as _c
-from ..model.forecast import Forecast
 from ..model.units import format_value
+
+if TYPE_CHECKING:
+    from ..model.forecast import Forecast
 
 UNIT_SYSTEMS = {
     # pressure unit, length unit, pd unit (pressure, length)
