@@ -8,16 +8,17 @@ from __future__ import annotations
 
 import threading
 import time
-from collections.abc import Callable, Iterable, Sequence
+from collections.abc import Callable, Sequence
 from typing import TYPE_CHECKING
 
-from .reading import Reading, Status
+from .framing import FrameStats
+from .reading import Reading
 
 if TYPE_CHECKING:  # pyserial loads only when instruments are started
     from .framing import PortSpec
     from .port import Emit, Event
 
-__all__ = ["Instruments", "Latest", "manual_reading"]
+__all__ = ["Instruments", "Latest", "fault_summary"]
 
 
 class Latest:
@@ -46,11 +47,6 @@ class Latest:
         return {k: r.aged(now, self.stale_after.get(k)) for k, r in items}
 
 
-def manual_reading(channel: str, quantity: str, value: float, raw: str, now: float, wall: float) -> Reading:
-    """A value the operator typed, as a Reading (never stale: the operator owns it)."""
-    return Reading(channel, quantity, value, Status.OK, raw, now, wall, "manual")
-
-
 class Instruments:
     """Start, stop and watch every port of a bench profile."""
 
@@ -67,11 +63,6 @@ class Instruments:
 
         self.readers = [PortReader(p, emit, on_event, clock=clock, wall=wall) for p in ports]
 
-    @property
-    def channels(self) -> Iterable:
-        for r in self.readers:
-            yield from r.spec.channels
-
     def start(self) -> None:
         for r in self.readers:
             r.start()
@@ -82,5 +73,26 @@ class Instruments:
         for r in self.readers:
             r.stop()
 
-    def stats(self) -> dict[str, object]:
+    def stats(self) -> dict[str, FrameStats]:
+        """What each port delivered and what went wrong, by port name."""
         return {r.spec.name: r.stats for r in self.readers}
+
+
+def fault_summary(stats: dict[str, FrameStats]) -> list[str]:
+    """One short text per port that has had trouble, e.g. "controller: 3 garbled, 1 timeout"."""
+    out = []
+    for port, st in stats.items():
+        parts = [
+            f"{n} {word}"
+            for n, word in (
+                (st.garbled, "garbled"),
+                (st.timeouts, "unanswered"),
+                (st.overflow, "overlong"),
+                (st.faults, "faults"),
+                (st.reconnects, "reconnects"),
+            )
+            if n
+        ]
+        if parts:
+            out.append(f"{port}: {', '.join(parts)}")
+    return out

@@ -173,3 +173,63 @@ def test_nothing_is_nan_on_screen_for_a_no_breakdown_point():
     text = " ".join(value for _, value, _ in readout_lines(v, "SI", "pressure", s.values["gap"], s.values["voltage"]))
     assert "nan" not in text.lower() and "none at any voltage" in text
     assert math.isfinite(s.values["pressure"])
+
+
+async def test_replay_plays_a_logbook_back_through_the_screen(tmp_path):
+    from strikeline.drivers.logbook import Logbook, read_logbook
+    from strikeline.tui.session import Session
+
+    clock = Clock(0.0)
+    path = tmp_path / "shift.jsonl"
+    book = Logbook(path, clock=clock)
+    book.open(bench="demo")
+    recorded = Session(load_bench("demo"), logbook=book, clock=clock)
+    for i in range(5):
+        clock.t = i * 0.1
+        recorded.handle(reading(12.5 + i, clock.t))
+    book.close()
+    app = make_app(load_bench("demo"), replay=read_logbook(path).records, speed=0, show_caution=False)
+    async with app.run_test(size=(80, 24)) as pilot:
+        for _ in range(100):
+            await pilot.pause(0.02)
+            if "replay finished" in text_of(app, "events"):
+                break
+        assert "REPLAY" in text_of(app, "channels")
+        assert "16.5 Pa" in text_of(app, "readouts")  # the last recorded indicated value
+        assert "replay finished" in text_of(app, "events")
+        assert app.session.logbook is None  # a replay does not write a new logbook
+
+
+async def test_a_failing_logbook_is_said_at_once_and_the_screen_goes_on():
+    from pathlib import Path
+
+    app = make_app(load_bench("demo"), manual=True, log_path=Path("/proc/strikeline-no/x.jsonl"), show_caution=False)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.pause(0.2)
+        assert "LOGBOOK FAILING" in text_of(app, "title")
+        assert "cannot write" in text_of(app, "message")
+        await pilot.press("p", *"25 Pa", "enter")
+        await pilot.pause()
+        assert "25.0 Pa" in text_of(app, "readouts")
+
+
+async def test_port_faults_are_counted_on_the_status_line():
+    from dataclasses import replace
+
+    from fakes import PtyInstrument
+
+    dev = PtyInstrument(lambda line: b"#garbage#\r\n")
+    profile = load_bench("demo")
+    port = replace(profile.ports[0], url=dev.path, poll_interval=0.02)
+    app = make_app(replace(profile, ports=(port,)), log=False, show_caution=False)
+    try:
+        async with app.run_test(size=(120, 30)) as pilot:
+            for _ in range(150):
+                await pilot.pause(0.02)
+                if "garbled" in text_of(app, "channels"):
+                    break
+            line = text_of(app, "channels")
+            assert "controller:" in line and "garbled" in line and "chamber GARBLED" in line
+            assert "WITHDRAWN" in text_of(app, "readouts")
+    finally:
+        dev.close()

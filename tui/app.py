@@ -368,6 +368,11 @@ class StrikelineApp(App[None]):
         self.query_one("#plot").border_title = "breakdown curve"
         self.query_one("#plot").border_subtitle = LEGEND
         self._note(f"{self.mode} on {self.session.profile.label}; '?' for keys and cautions")
+        book = self.session.logbook
+        if book is not None and book.error is not None:  # it failed before the screen existed
+            self.logbook_trouble = book.error
+            self._note(book.error, error=True)
+            self._event(book.error)
         self.refresh_view()
         self.set_interval(0.25, self.refresh_view)
         self.set_interval(self.plot_interval, self.redraw_plot)
@@ -466,6 +471,12 @@ class StrikelineApp(App[None]):
             if i:
                 t.append(" | ")
             t.append(text, style=_STYLE[style])
+        if hasattr(self.source, "stats"):
+            from ..drivers.hub import fault_summary
+
+            for text in fault_summary(self.source.stats()):  # counted and shown, never taken for values
+                t.append(" | ")
+                t.append(text, style="bold")
         self._set("channels", t)
 
     def _draw_readouts(self, view) -> None:

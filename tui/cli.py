@@ -412,7 +412,17 @@ def cmd_gauge(args: argparse.Namespace) -> int:
             print(json.dumps(reading_json(r, corr)) if args.json else reading_text(r, corr), flush=True)
     finally:
         inst.stop()
+    _print_port_counts(inst)
     return 0 if count else 1
+
+
+def _print_port_counts(inst) -> None:
+    for port, st in inst.stats().items():
+        print(
+            f"# {port}: {st.readings} readings, {st.garbled} garbled, {st.timeouts} unanswered, "
+            f"{st.overflow} overlong, {st.faults} faults, {st.reconnects} reconnects",
+            file=sys.stderr,
+        )
 
 
 def cmd_record(args: argparse.Namespace) -> int:
@@ -458,7 +468,21 @@ def cmd_record(args: argparse.Namespace) -> int:
                 print(f"strikeline record: {shown_error or 'logbook writing again'}", file=sys.stderr)
     finally:
         inst.stop()
+        for port, st in inst.stats().items():
+            book.write(
+                "event",
+                port=port,
+                event="counts",
+                message="",
+                readings=st.readings,
+                garbled=st.garbled,
+                unanswered=st.timeouts,
+                overlong=st.overflow,
+                faults=st.faults,
+                reconnects=st.reconnects,
+            )
         book.close()
+    _print_port_counts(inst)
     print(f"strikeline record: {book.written} records in {path}", file=sys.stderr)
     return 0 if book.error is None else 1
 
