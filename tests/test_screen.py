@@ -115,7 +115,7 @@ async def test_bad_input_keeps_the_old_value_and_explains():
         await pilot.press("g", *"25", "enter")
         await pilot.pause()
         msg = text_of(app, "message")
-        assert "kept the old gap" in msg and "needs a unit" in msg and "e.g." in msg
+        assert "the old gap is kept" in msg and "needs a unit" in msg and "e.g." in msg
         assert app.session.values["gap"] == before
         await pilot.press("G", *"unobtainium", "enter")
         await pilot.pause()
@@ -233,3 +233,9 @@ async def test_port_faults_are_counted_on_the_status_line():
             assert "WITHDRAWN" in text_of(app, "readouts")
     finally:
         dev.close()
+
+
+def test_the_key_line_fits_80_columns():
+    from strikeline.tui.app import KEY_HINTS
+
+    assert len(KEY_HINTS) <= 80

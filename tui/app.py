@@ -104,11 +104,11 @@ class CautionScreen(ModalScreen[None]):
             yield Static("Press Enter to continue.", id="caution-hint")
 
 
-KEY_HINTS = "p g v type  <> choose  ^v nudge  u units  space pause  s strike  d flags  k calib  ? help  q quit"
+KEY_HINTS = "p g v type  arrows nudge  u units  s strike  d flags  k calib  ? help  q quit"
 """The bottom line: the keys a technician needs most (every key is in the help screen)."""
 
 HELP_KEYS = [
-    ("p g v t", "type pressure, gap, supply voltage, gas temperature (with units)"),
+    ("p g v t", "type pressure, gap, supply voltage, gas temperature"),
     ("G  C", "switch gas, switch cathode"),
     ("left right", "choose which value the arrows nudge (marked >)"),
     ("up down", f"nudge it by {(_FINE - 1):.0%}"),
@@ -126,16 +126,19 @@ HELP_KEYS = [
 
 
 class HelpScreen(ModalScreen[None]):
+    """Cautions first (they must always be whole), then every key; scrolls on small terminals."""
+
     BINDINGS = [Binding("escape,q,question_mark,enter", "dismiss", "close")]
 
     def compose(self) -> ComposeResult:
+        from textual.containers import VerticalScroll
+
         lines = Text()
-        lines.append("keys\n", style="bold")
+        lines.append(CAUTION + "\n\n", style="bold")
+        lines.append("keys (values take units, e.g. 20 Pa, 30 mm, 600 V)\n")
         for k, what in HELP_KEYS:
             lines.append(f"  {k:<11} {what}\n")
-        lines.append("\n")
-        lines.append(CAUTION)
-        with Vertical(id="help-box"):
+        with VerticalScroll(id="help-box"):
             yield Static(lines)
             yield Static("Escape closes.", id="caution-hint")
 
@@ -180,16 +183,16 @@ class CalibrationScreen(ModalScreen[None]):
             yield Static(id="calib-text")
             yield Static(id="calib-plot")
             yield Static(
-                "1 fit A,B   2 fit B,gamma   3 fit gamma   a accept   w save to the bench file   Escape discard",
-                id="caution-hint",
+                "1 fit A,B  2 fit B,gamma  3 fit gamma  a accept  w save to bench  Esc discard", id="calib-hint"
             )
 
     def on_mount(self) -> None:
         self.refit()
+        self.call_after_refresh(self.draw)  # the picture needs its laid-out size
 
     def refit(self) -> None:
         from ..model.calibration import FitRefused
-        from .calibrate import calibrate, calibration_text, parse_free
+        from .calibrate import calibrate, calibration_summary, parse_free
 
         s = self.main.session
         marks = s.strikes
@@ -202,7 +205,7 @@ class CalibrationScreen(ModalScreen[None]):
             self.cal = None
             text.update(Text(f"{len(marks)} strike marks this session (s marks one).\nfit {self.free}: refused: {e}"))
             return
-        text.update(Text(calibration_text(self.cal)))
+        text.update(Text(calibration_summary(self.cal), no_wrap=True, overflow="ellipsis"))
         self.draw()
 
     def draw(self) -> None:
@@ -222,7 +225,8 @@ class CalibrationScreen(ModalScreen[None]):
         rpd = np.geomspace(lo, hi, 120)
         vb, _w = curve(rpd, replace(b, curve=None))
         fv, flo, fhi = prediction_band(self.cal.result.curve, rpd)
-        w = self.query_one("#calib-plot").size.width or 70
+        size = self.query_one("#calib-plot").size
+        w, h = size.width or 70, size.height or 10
         self.query_one("#calib-plot", Static).update(
             Text.from_ansi(
                 curve_picture(
@@ -235,8 +239,8 @@ class CalibrationScreen(ModalScreen[None]):
                         fitted=(tuple(rpd), tuple(fv), tuple(flo), tuple(fhi)),
                         marks=tuple(zip(self.cal.pd, self.cal.voltage, strict=True)),
                         pd_unit="Pa m (reduced)",
-                        width=max(w - 2, 30),
-                        height=12,
+                        width=max(w, 30),
+                        height=max(h, 6),
                         colour=not self.main.no_color,
                     )
                 )
@@ -624,8 +628,8 @@ class StrikelineApp(App[None]):
             supply=s.values["voltage"],
             fitted=self._fitted(rpd, k, to_x),
             pd_unit=" ".join(UNIT_SYSTEMS[self.units][2]),
-            width=width - 2,
-            height=height - 2,
+            width=width,  # size is the content area, inside the border
+            height=height,
             colour=not self.no_color,
         )
 
@@ -695,7 +699,7 @@ class StrikelineApp(App[None]):
         else:
             err = self.session.set_value(field, text)
         if err:
-            self._note(f"kept the old {field}: {err}", error=True)
+            self._note(f"{err} (the old {field} is kept)", error=True)
         else:
             self._note(f"{field} set from {text!r}")
             self._plot_dirty = True

@@ -103,6 +103,30 @@ def calibration_json(cal: Calibration, problems: tuple[str, ...] = ()) -> dict[s
     }
 
 
+def calibration_summary(cal: Calibration) -> str:
+    """A few short lines for the screen's calibration view (the full table is ``fit``'s)."""
+    cv = cal.result.curve
+    t = cal.textbook
+    parts = []
+    for name, value, sigma, book in (
+        ("A", cv.A, cv.A_sigma, t["A_per_Pa_m"]),
+        ("B", cv.B, cv.B_sigma, t["B_V_per_Pa_m"]),
+        ("gamma", cv.gamma, cv.gamma_sigma, t["gamma"]),
+    ):
+        if name in cal.result.free:
+            parts.append(f"{name} {value:.4g} +/-{sigma:.2g} ({book:.4g})")
+        else:
+            parts.append(f"{name} {value:.3g} fixed")
+    book = "n/a" if cal.textbook_rms is None else f"{cal.textbook_rms:.1f} V"
+    lines = [
+        f"bench curve for {cv.gas} on {cv.cathode}: {cv.n_points} strikes, fitted {', '.join(cal.result.free)}",
+        "  " + "   ".join(parts) + "   (textbook)",
+        f"  rms residual {cv.rms_residual:.1f} V; textbook on the same strikes {book}; band 95 %",
+    ]
+    lines += [f"  warning: {w}" for w in cal.result.warnings[:2]]
+    return "\n".join(lines)
+
+
 def calibration_text(cal: Calibration, problems: tuple[str, ...] = ()) -> str:
     cv = cal.result.curve
     t = cal.textbook

@@ -12,7 +12,7 @@ from dataclasses import dataclass
 
 __all__ = ["LEGEND", "CurveInputs", "curve_picture"]
 
-LEGEND = "·V_b ⣿strikes ─supply @now m min x fit +mark"
+LEGEND = "•V_b ⣿strikes ─supply @now m min x fit :band +mark"
 """The picture's key (plotext's own legend does not fit small plots)."""
 
 
@@ -95,11 +95,17 @@ def curve_picture(c: CurveInputs) -> str:
         line(ok, y, "dot", "cyan")
     if c.fitted is not None:
         fx, fy, flo, fhi = (np.asarray(a, dtype=float) for a in c.fitted)
-        for values, marker in ((fy, "x"), (flo, "dot"), (fhi, "dot")):
-            g = np.isfinite(values) & (values > 0)
-            if g.any():
-                plt.scatter(list(np.log10(fx[g])), list(np.log10(values[g])), marker=marker, color="magenta")
-                ys.append(values[g])
+        g = np.isfinite(fy) & (fy > 0)
+        if g.any():
+            plt.scatter(list(np.log10(fx[g])), list(np.log10(fy[g])), marker="x", color="magenta")
+            ys.append(fy[g])
+            # The band can run off towards zero or infinity near the asymptote: it is drawn, but
+            # never allowed to set the scale.
+            lo_clip, hi_clip = float(np.min(fy[g])) / 2, float(np.max(fy[g])) * 2
+            for band in (flo, fhi):
+                b = g & np.isfinite(band) & (band >= lo_clip) & (band <= hi_clip)
+                if b.any():
+                    plt.scatter(list(np.log10(fx[b])), list(np.log10(band[b])), marker=":", color="magenta")
     if c.marks:
         mx = [math.log10(a) for a, b in c.marks if a > 0 and b > 0]
         my = [math.log10(b) for a, b in c.marks if a > 0 and b > 0]

@@ -113,8 +113,8 @@ def channel_line(readings: dict[str, Reading], paused: bool, manual: bool, repla
         parts.append(("pressure MANUAL", ""))
     for name, r in readings.items():
         word = _STATUS_WORD.get(str(r.status), str(r.status).upper())
-        if r.source == "simulated" and word == "LIVE":
-            word = "SIM"
+        if word == "LIVE":
+            word = {"simulated": "SIM", "replay": "REPLAY", "manual": "MANUAL"}.get(r.source, word)
         style = "" if str(r.status) == "ok" else "bad"
         parts.append((f"{name} {word}", style))
     if not parts:
