@@ -32,12 +32,13 @@ from typing import Any
 
 from .reading import Reading, Status
 
-__all__ = ["FORMAT", "LogRead", "Logbook", "ReplaySource", "read_logbook", "reading_from_record"]
+__all__ = ["FORMAT", "LogRead", "Logbook", "ReplaySource", "iso_utc", "read_logbook", "reading_from_record"]
 
 FORMAT = "strikeline-logbook/1"
 
 
-def _iso(t_wall: float) -> str:
+def iso_utc(t_wall: float) -> str:
+    """Unix seconds as an ISO-8601 UTC time with microseconds, e.g. "2026-12-01T09:30:00.123456Z"."""
     return _dt.datetime.fromtimestamp(t_wall, _dt.UTC).isoformat(timespec="microseconds").replace("+00:00", "Z")
 
 
@@ -113,6 +114,9 @@ class Logbook:
         if self.error != msg:
             self.error = msg
             self.on_error(msg)
+        self._close_file()
+
+    def _close_file(self) -> None:
         if self._f is not None:
             try:
                 self._f.close()
@@ -123,7 +127,7 @@ class Logbook:
     def write(self, kind: str, **fields: Any) -> None:
         """Append one record now (flushed before returning when the disk allows)."""
         wall = self.wall()
-        rec = {"t": _iso(wall), "t_unix": wall, "mono": round(self.clock() - self._t0, 6), "kind": kind}
+        rec = {"t": iso_utc(wall), "t_unix": wall, "mono": round(self.clock() - self._t0, 6), "kind": kind}
         rec.update(fields)
         line = json.dumps(_clean(rec), ensure_ascii=False, separators=(",", ":")) + "\n"
         with self._lock:
@@ -176,12 +180,7 @@ class Logbook:
             self._syncer.join(2)
         self.sync()
         with self._lock:
-            if self._f is not None:
-                try:
-                    self._f.close()
-                except OSError:
-                    pass
-                self._f = None
+            self._close_file()
 
     @property
     def pending(self) -> int:

@@ -24,13 +24,13 @@ from textual.message import Message
 from textual.screen import ModalScreen
 from textual.widgets import Static
 
-from ..drivers.logbook import Logbook, ReplaySource
+from ..drivers.logbook import Logbook, ReplaySource, iso_utc
 from ..drivers.reading import Reading
 from ..profiles.loader import BenchProfile
 from .plot import LEGEND, CurveInputs
 from .readouts import NUDGE_FIELDS, channel_line, flag_lines, pd_display, readout_lines, sparkline
 from .session import Session, StrikeMark
-from .text import UNIT_SYSTEMS, iso_utc
+from .text import UNIT_SYSTEMS
 
 __all__ = ["CAUTION", "StrikelineApp", "make_app"]
 

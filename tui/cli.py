@@ -185,6 +185,7 @@ def build_parser() -> argparse.ArgumentParser:
         "log",
         help="summarise a logbook",
         description="Summarise a logbook: span, readings per channel, gaps and faults, strike marks, flag changes.",
+        epilog=SAFETY,
     )
     lg.add_argument("path", metavar="PATH", help="a logbook (.jsonl)")
     lg.add_argument("--strikes", metavar="CSV", help="also write the strike marks as a calibration CSV")
@@ -194,6 +195,7 @@ def build_parser() -> argparse.ArgumentParser:
         "gases",
         help="gas and cathode data with sources",
         description="List gas and cathode data with sources.",
+        epilog=SAFETY,
     )
     g.add_argument("--json", action="store_true", help="print as JSON (SI units)")
     return p

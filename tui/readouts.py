@@ -11,7 +11,7 @@ from typing import TYPE_CHECKING
 from ..drivers.reading import Reading
 from ..model.units import convert, format_value
 from .session import View
-from .text import UNIT_SYSTEMS, pd_text
+from .text import UNIT_SYSTEMS, amps, pd_text
 
 if TYPE_CHECKING:
     from ..model.forecast import Forecast
@@ -33,10 +33,6 @@ NUDGE_FIELDS = ("pressure", "gap", "voltage")
 
 def _v(x: float | None, unit: str = "V") -> str:
     return "none" if x is None else format_value(x, "voltage", unit)
-
-
-def _amps(i: float) -> str:
-    return f"{i:.3g} A" if i >= 1 else f"{i * 1e3:.3g} mA"
 
 
 def readout_lines(
@@ -97,7 +93,7 @@ def readout_lines(
         rows.append(("glow", "no strike" if not f.strikes else "no supply data", ""))
     else:
         rows.append(
-            ("glow", f"{ll.regime.replace('_', ' ')} {_amps(ll.current)}", "bad" if ll.regime == "arc_risk" else "")
+            ("glow", f"{ll.regime.replace('_', ' ')} {amps(ll.current)}", "bad" if ll.regime == "arc_risk" else "")
         )
     return rows
 

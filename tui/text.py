@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from typing import TYPE_CHECKING, Any
 
+from ..drivers.logbook import iso_utc
 from ..model import constants as _c
 from ..model.units import format_value
 
@@ -31,7 +32,8 @@ def pd_text(pd_si: float | None, system: str) -> str:
     return f"{_g(value)} {pu} {lu}"
 
 
-def _amps(i: float) -> str:
+def amps(i: float) -> str:
+    """A current as mA below 1 A, as A above."""
     return f"{i:.3g} A" if i >= 1 else f"{i * 1e3:.3g} mA"
 
 
@@ -109,7 +111,7 @@ def forecast_text(f: Forecast, system: str = "SI") -> str:
         rows.append(
             (
                 "glow after ignition",
-                f"{ll.regime.replace('_', ' ')}: {_amps(ll.current)} at "
+                f"{ll.regime.replace('_', ' ')}: {amps(ll.current)} at "
                 f"{ll.voltage:.0f} V{cover} (limited by the {ll.limited_by.replace('_', ' ')})",
             )
         )
@@ -139,13 +141,6 @@ def forecast_text(f: Forecast, system: str = "SI") -> str:
 
 
 _READING_UNITS = {"pressure": "Pa", "voltage": "V", "current": "mA"}
-
-
-def iso_utc(t_wall: float) -> str:
-    """Unix seconds as an ISO-8601 UTC time with microseconds."""
-    import datetime as _dt
-
-    return _dt.datetime.fromtimestamp(t_wall, _dt.UTC).isoformat(timespec="microseconds").replace("+00:00", "Z")
 
 
 def corrected_value(r, corr) -> tuple[float | None, bool]:
