@@ -18,7 +18,7 @@ from . import constants as _c
 from .bench import Bench, BenchCurve, OperatingPoint, Yield
 from .calibration import prediction_band
 
-__all__ = ["LEVELS", "Afterglow", "Flag", "Forecast", "StrayResult", "forecast"]
+__all__ = ["LEVELS", "Afterglow", "Flag", "Forecast", "StrayResult", "curve", "forecast", "with_bench_curve"]
 
 LEVELS = ("ok", "watch", "danger")
 """Flag levels, mildest first."""
@@ -268,7 +268,7 @@ def _magnetised(point: OperatingPoint, bench: Bench) -> tuple[float, float | Non
     return point.pressure * math.sqrt(1.0 + hall * hall), hall
 
 
-def _with_curve(bench: Bench) -> tuple[Bench, BenchCurve | None]:
+def with_bench_curve(bench: Bench) -> tuple[Bench, BenchCurve | None]:
     """The bench with its fitted curve's A, B, gamma in place of the textbook ones, where the
     curve was fitted for this gas and cathode."""
     cv = bench.curve
@@ -286,7 +286,7 @@ def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
     voltage, else none (breakdown only). A bench curve fitted for this gas and cathode
     replaces the textbook constants, and its prediction band replaces their uncertainty.
     """
-    bench, cv = _with_curve(bench)
+    bench, cv = with_bench_curve(bench)
     gas = bench.gas
     c = gas.constants
     y = bench.yield_()
@@ -749,5 +749,10 @@ def _afterglow(point, bench) -> tuple[Afterglow | None, list[Flag]]:
 
 
 def curve(reduced_pd: np.ndarray, bench: Bench) -> tuple[np.ndarray, np.ndarray]:
-    """The bench's breakdown curve over ``reduced_pd`` (Pa m): (V_b in V, law weight)."""
+    """The bench's breakdown curve over ``reduced_pd`` (Pa m): (V_b in V, law weight).
+
+    Like :func:`forecast`, it uses a bench curve fitted for this gas and cathode where the
+    bench has one; pass ``replace(bench, curve=None)`` for the textbook curve.
+    """
+    bench, _cv = with_bench_curve(bench)
     return paschen.breakdown_voltage_with_law(reduced_pd, bench.gas.constants, bench.yield_().value, bench.gas.law)

@@ -148,6 +148,17 @@ def test_fit_verb_json_contract_and_save(tmp_path, capsys):
     )
     width = lambda fc: fc.breakdown_band[1] - fc.breakdown_band[0]  # noqa: E731
     assert width(f) < width(textbook) / 2  # a fitted curve narrows the margin's uncertainty
+    # curve follows the fitted constants too, and says so
+    capsys.readouterr()
+    assert (
+        cli.main(
+            ["curve", "--bench", str(bench), "--gap", "30 mm", "--from", "60 Pa", "--to", "61 Pa", "--points", "2"]
+        )
+        == 0
+    )
+    row = capsys.readouterr().out.splitlines()[1].split(",")
+    assert row[-1] == "bench-curve"
+    assert float(row[4]) == pytest.approx(f.breakdown_voltage, rel=0.02)
     # saving twice replaces the section rather than adding another
     assert cli.main(["fit", str(_csv(tmp_path, seed=5)), "--bench", str(bench), "--save", str(bench)]) == 0
     assert bench.read_text().count("[curve]") == 1

@@ -202,7 +202,9 @@ def test_curve_csv_over_pressure_with_a_gap(capsys):
         "breakdown_V",
         "branch",
         "law",
+        "constants",
     }
+    assert {r["constants"] for r in rows} == {"textbook"}
     assert float(rows[0]["pressure_Pa"]) == pytest.approx(1.0) and float(rows[-1]["pressure_Pa"]) == pytest.approx(
         1000.0
     )

@@ -20,6 +20,7 @@ from rich.text import Text
 from textual.app import App, ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
+from textual.css.query import NoMatches
 from textual.message import Message
 from textual.screen import ModalScreen
 from textual.widgets import Static
@@ -399,9 +400,16 @@ class StrikelineApp(App[None]):
             except OSError:
                 pass
 
-    def on_unmount(self) -> None:
+    async def action_quit(self) -> None:
+        self._stop_source()  # no more readings posted into a screen that is closing
+        self.exit()
+
+    def _stop_source(self) -> None:
         if self.source is not None and hasattr(self.source, "stop"):
             self.source.stop()
+
+    def on_unmount(self) -> None:
+        self._stop_source()
         if self.session.logbook is not None:
             self.session.logbook.close()
 
@@ -441,6 +449,13 @@ class StrikelineApp(App[None]):
             self.query_one(f"#{widget_id}", Static).update(content, layout=False)  # fixed sizes: no relayout
 
     def refresh_view(self) -> None:
+        try:
+            self._refresh_view()
+        except NoMatches:  # a timer or message arriving while the screen is torn down on quit
+            if self.is_running and self.screen is self.default_screen and self.default_screen.children:
+                raise
+
+    def _refresh_view(self) -> None:
         if self.paused and self.view_ is not None:
             self._draw_title()
             return
@@ -544,6 +559,13 @@ class StrikelineApp(App[None]):
         )
 
     def sample_history(self) -> None:
+        try:
+            self._sample_history()
+        except NoMatches:
+            if self.is_running and self.default_screen.children:
+                raise
+
+    def _sample_history(self) -> None:
         v = self.view_
         if v is None or self.paused:
             return
@@ -590,7 +612,7 @@ class StrikelineApp(App[None]):
         if f is not None:
             hi = max(hi, f.reduced_pd * 3)
         rpd = np.geomspace(lo, hi, max(width * 2, 60))
-        vb, _w = curve(rpd, b)
+        vb, _w = curve(rpd, replace(b, curve=None))  # the textbook line; a fit is drawn over it
         to_x = pd_display(1.0, self.units)
         point = None
         if f is not None:
@@ -653,7 +675,12 @@ class StrikelineApp(App[None]):
     def redraw_plot(self) -> None:
         from .plot import curve_picture
 
-        inputs = self._plot_inputs()
+        try:
+            inputs = self._plot_inputs()
+        except NoMatches:
+            if self.is_running and self.default_screen.children:
+                raise
+            return
         if inputs is None:
             return
         self.query_one("#plot", Static).update(Text.from_ansi(curve_picture(inputs)))

@@ -308,8 +308,9 @@ def cmd_curve(args: argparse.Namespace) -> int:
     import numpy as np
 
     from ..model import paschen
+    from ..model.forecast import with_bench_curve
 
-    bench = _bench_for(args, need_gap=False)
+    bench, fitted = with_bench_curve(_bench_for(args, need_gap=False))
     if args.points < 2 or args.points > 1_000_000:
         raise UsageError(f"strikeline curve: --points {args.points}: give 2 to 1000000")
     c = bench.gas.constants
@@ -355,7 +356,9 @@ def cmd_curve(args: argparse.Namespace) -> int:
         "breakdown_V",
         "branch",
         "law",
+        "constants",
     ]
+    source = "bench-curve" if fitted is not None else "textbook"
     out.write(",".join(cols) + "\n")
     for i in range(len(xs)):
         law = "paschen" if w[i] == 0 else ("uniform-field" if w[i] >= 1 else "blend")
@@ -366,6 +369,7 @@ def cmd_curve(args: argparse.Namespace) -> int:
             v,
             str(br[i]),
             law,
+            source,
         ]
         out.write(",".join(row) + "\n")
     return 0
