@@ -18,7 +18,17 @@ from . import constants as _c
 from .bench import Bench, BenchCurve, OperatingPoint, Yield
 from .calibration import prediction_band
 
-__all__ = ["LEVELS", "Afterglow", "Flag", "Forecast", "StrayResult", "curve", "forecast", "with_bench_curve"]
+__all__ = [
+    "LEVELS",
+    "Afterglow",
+    "Flag",
+    "Forecast",
+    "StrayResult",
+    "curve",
+    "effective_pressure",
+    "forecast",
+    "with_bench_curve",
+]
 
 LEVELS = ("ok", "watch", "danger")
 """Flag levels, mildest first."""
@@ -255,17 +265,28 @@ def _breakdown(rpd: float, bench: Bench, gamma: float) -> tuple[float | None, fl
     return _opt(v), float(w)
 
 
-def _magnetised(point: OperatingPoint, bench: Bench) -> tuple[float, float | None]:
+def effective_pressure(p, T: float, bench: Bench):
     """Effective pressure p sqrt(1 + (omega_ce/nu_m)^2) in crossed E x B fields, and the Hall
-    parameter (Blevin & Haydon's effective-pressure treatment, as in Raizer 1991, sec. 4.6;
-    from memory). Unmagnetised: (p, None)."""
+    parameter omega_ce/nu_m (Blevin & Haydon's effective-pressure treatment, as in Raizer 1991,
+    sec. 4.6; from memory). p in Pa (scalar or array), T in K. Unmagnetised: (p, None).
+
+    >>> from strikeline.profiles.loader import load_bench
+    >>> p_eff, hall = effective_pressure(0.5, 293.0, load_bench("demo-magnetron").bench)
+    >>> round(float(hall)), round(float(p_eff))
+    (285, 142)
+    """
     if bench.magnetic_field is None:
-        return point.pressure, None
+        return p, None
     omega = _c.e * bench.magnetic_field / _c.m_e
-    p_r = point.pressure * bench.gas.constants.reference_temperature / point.gas_temperature
-    nu = bench.gas.electron_collision_per_Pa * p_r
+    p = np.asarray(p, dtype=float)
+    nu = bench.gas.electron_collision_per_Pa * p * bench.gas.constants.reference_temperature / T
     hall = omega / nu
-    return point.pressure * math.sqrt(1.0 + hall * hall), hall
+    p_eff = p * np.sqrt(1.0 + hall * hall)
+    return (float(p_eff), float(hall)) if p_eff.ndim == 0 else (p_eff, hall)
+
+
+def _magnetised(point: OperatingPoint, bench: Bench) -> tuple[float, float | None]:
+    return effective_pressure(point.pressure, point.gas_temperature, bench)
 
 
 def with_bench_curve(bench: Bench) -> tuple[Bench, BenchCurve | None]:

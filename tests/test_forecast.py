@@ -229,3 +229,18 @@ def test_strike_json_gains_load_line_and_afterglow_for_the_demo(capsys):
     assert {"current_A", "voltage_V", "regime", "covered_fraction"} <= d["load_line"].keys()
     assert {"ambipolar_D_m2_per_s", "diffusion_length_m", "decay_time_s", "residual_fraction"} <= d["afterglow"].keys()
     assert all(f["method"] for f in d["flags"])
+
+
+def test_curve_verb_applies_the_crossed_field_pressure_like_strike(capsys):
+    import csv
+    import io
+    import json
+
+    from strikeline.tui import cli
+
+    assert cli.main(["curve", "--bench", "demo-magnetron", "--from", "0.5 Pa", "--to", "0.6 Pa", "--points", "2"]) == 0
+    rows = list(csv.DictReader(io.StringIO(capsys.readouterr().out)))
+    assert float(rows[0]["pressure_Pa"]) == pytest.approx(0.5) and float(rows[0]["gap_m"]) == pytest.approx(0.06)
+    assert cli.main(["strike", "--bench", "demo-magnetron", "--pressure", "0.5 Pa", "--json"]) == 0
+    d = json.loads(capsys.readouterr().out)
+    assert float(rows[0]["breakdown_V"]) == pytest.approx(d["breakdown_V"], rel=1e-9)

@@ -122,7 +122,9 @@ def build_parser() -> argparse.ArgumentParser:
         help="the breakdown curve as CSV",
         description=(
             "Print the breakdown curve as CSV. With --gap, --from/--to are pressures; without it they are pd "
-            "values such as '0.1 Torr cm'. Default: two decades either side of the minimum."
+            "values such as '0.1 Torr cm'. A magnetised bench is swept in pressure at its gap (the crossed-field "
+            "effective pressure depends on p), and its reduced_pd column includes that effective pressure. "
+            "Default: two decades either side of the minimum."
         ),
         epilog=SAFETY,
     )
@@ -317,7 +319,9 @@ def cmd_curve(args: argparse.Namespace) -> int:
     gamma = bench.yield_().value
     scale = c.reference_temperature / bench.gas_temperature
     pd_min, _ = paschen.minimum(c.A, c.B, gamma)
-    gap = args.gap  # a pd sweep unless --gap is given, even with a bench
+    gap = args.gap  # a pd sweep unless --gap is given, even with a bench...
+    if gap is None and bench.magnetic_field is not None:
+        gap = bench.gap  # ...but a magnetised cathode's effective pressure needs p itself
     what = "pressure" if gap is not None else "pd"
 
     def read(text: str | None, default: float, option: str) -> float:
@@ -342,11 +346,14 @@ def cmd_curve(args: argparse.Namespace) -> int:
         raise UsageError(
             f"strikeline curve: --from must be below --to (got {lo:g} and {hi:g} {'Pa' if gap else 'Pa m'})"
         )
+    from ..model.forecast import curve, effective_pressure
+
     xs = np.geomspace(lo, hi, args.points)
     pd = xs * gap if gap is not None else xs
     rpd = pd * scale
-    from ..model.forecast import curve
-
+    if bench.magnetic_field is not None:
+        p_eff, _hall = effective_pressure(xs, bench.gas_temperature, bench)
+        rpd = p_eff * gap * scale
     vb, w = curve(rpd, bench)
     br = paschen.branch(rpd, c.A, gamma)
     out = sys.stdout
