@@ -32,8 +32,8 @@ class Latest:
     def update(self, r: Reading) -> None:
         with self._lock:
             prev = self._latest.get(r.channel)
-            # A lost/garbled report does not erase when the last good value came, but the
-            # channel's status is what the operator must see.
+            # The newest report wins, good or bad: a lost or garbled channel must show as such.
+            # One stamped earlier (threads can interleave) never replaces a newer one.
             self._latest[r.channel] = r if prev is None or r.t_mono >= prev.t_mono else prev
 
     def get(self, channel: str, now: float) -> Reading | None:

@@ -25,6 +25,17 @@ __all__ = ["PortReader", "PortSpec", "register_url_handlers"]
 
 _HANDLERS = "strikeline.drivers.urlhandler"
 
+try:  # a pty or USB adapter pulled mid-call can raise termios.error, which is not an OSError
+    import termios
+
+    _TERMIOS_ERROR: type[Exception] = termios.error
+except ImportError:  # not POSIX
+    _TERMIOS_ERROR = OSError
+
+# Everything a dying or missing port raises; pyserial also raises TypeError/AttributeError from
+# a port closed under a read. None of these may end the reader thread.
+_PORT_ERRORS = (serial.SerialException, OSError, _TERMIOS_ERROR, ValueError, TypeError, AttributeError)
+
 
 def register_url_handlers() -> None:
     """Let ``serial_for_url`` open our own URL schemes (``simbench://``)."""
@@ -102,7 +113,7 @@ class PortReader:
         while not self._stop.is_set():
             try:
                 port = self._open()
-            except (serial.SerialException, OSError, ValueError) as e:
+            except _PORT_ERRORS as e:
                 self._mark_lost(f"cannot open {self.spec.url}: {e}")
                 self._stop.wait(delay)
                 delay = min(delay * 2, self.backoff[1])
@@ -117,8 +128,7 @@ class PortReader:
                     self._poll(port)
                 else:
                     self._listen(port)
-            except (serial.SerialException, OSError, TypeError, AttributeError) as e:
-                # pyserial raises TypeError/AttributeError from a port closed under a read.
+            except _PORT_ERRORS as e:
                 if not self._stop.is_set():
                     self._mark_lost(f"{self.spec.url}: {e}")
             finally:

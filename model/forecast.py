@@ -256,7 +256,9 @@ def _opt(x: float) -> float | None:
     return x if math.isfinite(x) else None
 
 
-def _law_name(weight: float) -> str:
+def law_name(weight: float) -> str:
+    """Which law a V_b came from, given the uniform-field law's weight: "paschen", "blend" or
+    "uniform-field"."""
     return "paschen" if weight == 0 else ("uniform-field" if weight >= 1 else "blend")
 
 
@@ -283,10 +285,6 @@ def effective_pressure(p, T: float, bench: Bench):
     hall = omega / nu
     p_eff = p * np.sqrt(1.0 + hall * hall)
     return (float(p_eff), float(hall)) if p_eff.ndim == 0 else (p_eff, hall)
-
-
-def _magnetised(point: OperatingPoint, bench: Bench) -> tuple[float, float | None]:
-    return effective_pressure(point.pressure, point.gas_temperature, bench)
 
 
 def with_bench_curve(bench: Bench) -> tuple[Bench, BenchCurve | None]:
@@ -317,11 +315,11 @@ def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
     gamma = y.value
     T = point.gas_temperature
     scale = c.reference_temperature / T  # reduced pd = pd * scale
-    p_eff, hall = _magnetised(point, bench)
+    p_eff, hall = effective_pressure(point.pressure, T, bench)
     pd = point.pressure * point.gap
     rpd = p_eff * point.gap * scale
     vb, weight = _breakdown(rpd, bench, gamma)
-    law = _law_name(weight)
+    law = law_name(weight)
     pd_min, v_min = paschen.minimum(c.A, c.B, gamma)
     pd0 = paschen.no_breakdown_pd(c.A, gamma)
     br = str(paschen.branch(rpd, c.A, gamma))
@@ -362,7 +360,7 @@ def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
     V = point.voltage
     if V is None and bench.supply is not None:
         V = bench.supply.open_circuit_voltage
-    strays = _stray_gaps(point, bench, gamma, p_eff, scale, vb)
+    strays = _stray_gaps(bench, gamma, p_eff, scale, vb)
     load = None
     if V is not None:
         E = V / point.gap
@@ -386,10 +384,10 @@ def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
         if hall is None and rpd >= STREAMER_CHECK_PD:
             flags += _streamer_flags(V, vb, ad, rpd, weight)
         if bench.supply is not None and strikes:
-            load, glow_flags = _load_line(point, bench, p_eff, v_min, V)
+            load, glow_flags = _load_line(bench, p_eff, v_min, V)
             flags += glow_flags
     flags += _stray_flags(strays, vb, V, load)
-    flags += _left_branch_flags(br, point, bench, pd_min, v_min, scale, p_eff, strays)
+    flags += _left_branch_flags(br, point, bench, pd_min, v_min, scale, p_eff)
     after, after_flags = _afterglow(point, bench)
     flags += after_flags
 
@@ -587,7 +585,7 @@ def _normal_glow_data(bench: Bench, v_min: float) -> tuple[float, float | None, 
     return row.cathode_fall, row.current_density_per_p2, row.pd_n, row.source
 
 
-def _load_line(point, bench, p_eff, v_min, V) -> tuple[glow.LoadLine, list[Flag]]:
+def _load_line(bench, p_eff, v_min, V) -> tuple[glow.LoadLine, list[Flag]]:
     s = bench.supply
     v_n, j_p2, _pdn, source = _normal_glow_data(bench, v_min)
     j_n = None if j_p2 is None else glow.normal_current_density(j_p2, p_eff)
@@ -657,7 +655,7 @@ def _amps(i: float) -> str:
     return f"{i:.3g} A" if i >= 1 else f"{i * 1e3:.3g} mA"
 
 
-def _stray_gaps(point, bench, gamma, p_eff, scale, vb) -> tuple[StrayResult, ...]:
+def _stray_gaps(bench, gamma, p_eff, scale, vb) -> tuple[StrayResult, ...]:
     out = []
     for g in bench.stray_gaps:
         v, _w = _breakdown(p_eff * g.length * scale, bench, gamma)
@@ -707,7 +705,7 @@ def _stray_flags(strays, vb, V, load) -> list[Flag]:
     return flags
 
 
-def _left_branch_flags(br, point, bench, pd_min, v_min, scale, p_eff, strays) -> list[Flag]:
+def _left_branch_flags(br, point, bench, pd_min, v_min, scale, p_eff) -> list[Flag]:
     if br != "left":
         return []
     l_min = pd_min / scale / p_eff  # the length that sits at the minimum at this pressure

@@ -29,6 +29,8 @@ class GaugeCorrection:
     valid_below: float | None
     """Pa: above this indicated pressure the correction is approximate (None: no limit)."""
     source: str
+    overridden: bool = False
+    """The factor was set by hand in the bench profile (it does not follow a change of gas)."""
 
 
 def correct(indicated: float, c: GaugeCorrection) -> tuple[float, bool]:

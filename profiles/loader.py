@@ -623,7 +623,7 @@ def gauge_correction(kind: str, gas: Gas, override: float | None = None) -> Gaug
     d = _gauge_data()[kind]
     limit = d.get("linear_below_Pa")
     if override is not None:
-        return GaugeCorrection(kind, override, limit, "bench profile gauge_factor")
+        return GaugeCorrection(kind, override, limit, "bench profile gauge_factor", overridden=True)
     if kind == "capacitance":
         return GaugeCorrection(kind, 1.0, None, d["source"])
     if kind == "thermal":

@@ -267,3 +267,15 @@ def test_installed_entry_point_runs():
         timeout=60,
     )
     assert r.returncode == 2 and r.stderr.count("\n") == 1 and "Traceback" not in r.stderr
+
+
+def test_sim_ports_follow_the_bench_gas(tmp_path):
+    # --sim on a helium bench: the simulated thermal gauge under-reads by helium's factor (0.8,
+    # common practice) and is corrected by the same, not by the demo's argon factor.
+    bench = tmp_path / "he.toml"
+    bench.write_text('[bench]\ngas = "He"\ncathode = "Cu"\ngap = "30 mm"\npressure = "50 Pa"\n')
+    from strikeline.profiles.loader import load_bench
+
+    sim = cli._sim_ports(load_bench(bench))
+    assert "gauge_factor=0.8" in sim.ports[0].url and "setpoint=50" in sim.ports[0].url
+    assert sim.gauges["chamber"].factor == pytest.approx(0.8)

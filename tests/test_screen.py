@@ -239,3 +239,14 @@ def test_the_key_line_fits_80_columns():
     from strikeline.tui.app import KEY_HINTS
 
     assert len(KEY_HINTS) <= 80
+
+
+async def test_a_point_left_of_the_asymptote_stays_on_the_curve():
+    app = make_app(load_bench("demo"), manual=True, log=False, show_caution=False)
+    async with app.run_test(size=(100, 30)) as pilot:
+        app.session.set_value("pressure", "3 Pa")  # far left of argon's asymptote at 30 mm
+        app.refresh_view()
+        app._plot_dirty = True
+        inputs = app._plot_inputs()
+        await pilot.pause()
+        assert inputs.point is not None and inputs.pd[0] <= inputs.point[0] <= inputs.pd[-1]

@@ -84,3 +84,22 @@ def test_mark_strike_records_the_point(session):
     assert session.strikes == [mark]
     session.clock_.t = 5.0  # everything stale now
     assert "cannot mark a strike" in session.mark_strike()
+
+
+def test_view_reports_flag_changes_once(session):
+    session.set_value("pressure", "20 Pa")
+    first = session.view(0.0)
+    assert ("raised", next(x for x in first.forecast.flags if x.code == "strikes")) in first.flag_changes
+    assert session.view(0.1).flag_changes == ()  # nothing changed
+    session.set_value("pressure", "5 Pa")  # left of the asymptote: no breakdown at all
+    changes = {(c, x.code) for c, x in session.view(0.2).flag_changes}
+    assert ("cleared", "strikes") in changes and ("raised", "no_breakdown") in changes
+
+
+def test_switching_gas_moves_the_gauge_correction_with_it(session):
+    # The demo's thermal gauge: argon factor 1.6, helium 0.8 (common practice; test_gauges.py).
+    session.handle(reading(10.0, 0.0))
+    assert session.view(0.1).pressure.value == pytest.approx(16.0)
+    assert session.set_gas("He") is None
+    assert session.view(0.2).pressure.value == pytest.approx(8.0)
+    assert "unknown" in session.set_gas("unobtainium")

@@ -320,7 +320,7 @@ class StrikelineApp(App[None]):
         self,
         session: Session,
         *,
-        source: Any = None,
+        make_source: Callable[[], Any] | None = None,
         mode: str = "live",
         show_caution: bool = False,
         caution_marker: Path | None = None,
@@ -330,7 +330,9 @@ class StrikelineApp(App[None]):
     ):
         super().__init__()
         self.session = session
-        self.source = source
+        self.make_source = make_source
+        """Builds the readings' source (instruments or a replay) once the first frame is out."""
+        self.source: Any = None
         self.mode = mode
         self.show_caution = show_caution
         self.caution_marker = caution_marker
@@ -382,14 +384,13 @@ class StrikelineApp(App[None]):
         self.set_interval(0.25, self.refresh_view)
         self.set_interval(self.plot_interval, self.redraw_plot)
         self.set_interval(1.0, self.sample_history)
-        if self.source is not None:
+        if self.make_source is not None:
             self.call_after_refresh(self._start_source)  # the first frame does not wait for ports
         if self.show_caution:
             self.push_screen(CautionScreen(), self._caution_seen)
 
     def _start_source(self) -> None:
-        if callable(self.source) and not hasattr(self.source, "start"):
-            self.source = self.source()  # built on first use: pyserial loads after the first frame
+        self.source = self.make_source()  # pyserial loads here, after the first frame
         self.source.start()
 
     def _caution_seen(self, _result=None) -> None:
@@ -405,7 +406,7 @@ class StrikelineApp(App[None]):
         self.exit()
 
     def _stop_source(self) -> None:
-        if self.source is not None and hasattr(self.source, "stop"):
+        if self.source is not None:
             self.source.stop()
 
     def on_unmount(self) -> None:
@@ -448,11 +449,15 @@ class StrikelineApp(App[None]):
             self._shown[widget_id] = key
             self.query_one(f"#{widget_id}", Static).update(content, layout=False)  # fixed sizes: no relayout
 
+    def _closing(self) -> bool:
+        """The screen is being torn down (quit): its widgets may already be gone."""
+        return not self.is_running or not self.default_screen.children
+
     def refresh_view(self) -> None:
         try:
             self._refresh_view()
         except NoMatches:  # a timer or message arriving while the screen is torn down on quit
-            if self.is_running and self.screen is self.default_screen and self.default_screen.children:
+            if not self._closing():
                 raise
 
     def _refresh_view(self) -> None:
@@ -535,14 +540,12 @@ class StrikelineApp(App[None]):
         self._flag_events(view, previous)
 
     def _flag_events(self, view, previous) -> None:
+        # The Session works out the changes (and logs them); a withdrawal is one event, not a
+        # "cleared" per flag.
         if previous is not None and previous.forecast is not None and view.forecast is not None:
-            old = {x.code: x.level for x in previous.forecast.flags if x.level != "ok"}
-            new = {x.code: x.level for x in view.forecast.flags if x.level != "ok"}
-            for code, level in new.items():
-                if old.get(code) != level:
-                    self._event(f"flag {level.upper()} {code}")
-            for code in old.keys() - new.keys():
-                self._event(f"flag cleared {code}")
+            for change, x in view.flag_changes:
+                if x.level != "ok":
+                    self._event(f"flag {x.level.upper()} {x.code}" if change == "raised" else f"flag cleared {x.code}")
         if (previous is None or previous.withdrawn is None) and view.withdrawn is not None:
             self._event(f"forecast withdrawn: {view.withdrawn}")
         elif previous is not None and previous.withdrawn is not None and view.withdrawn is None:
@@ -562,7 +565,7 @@ class StrikelineApp(App[None]):
         try:
             self._sample_history()
         except NoMatches:
-            if self.is_running and self.default_screen.children:
+            if not self._closing():
                 raise
 
     def _sample_history(self) -> None:
@@ -603,13 +606,17 @@ class StrikelineApp(App[None]):
         f = v.forecast if v is not None else None
         T = s.values["temperature"]
         scale = c.reference_temperature / T
-        ratio = 1.0 if f is None or f.effective_pressure is None else f.effective_pressure / f.pressure
+        ratio = 1.0
+        if f is not None and f.effective_pressure is not None:
+            # Magnetised: in 5 % steps, so gauge noise does not redraw an unchanged picture.
+            ratio = 10 ** (round(math.log10(f.effective_pressure / f.pressure) * 46) / 46)
         k = scale * ratio  # reduced pd = actual pd * k
         pd0 = paschen.no_breakdown_pd(c.A, gamma)
         pd_min, v_min = paschen.minimum(c.A, c.B, gamma)
         lo = pd0 * 1.01
         hi = pd_min * 300
-        if f is not None:
+        if f is not None:  # the operating point is always on the picture, even left of the asymptote
+            lo = min(lo, f.reduced_pd / 2)
             hi = max(hi, f.reduced_pd * 3)
         rpd = np.geomspace(lo, hi, max(width * 2, 60))
         vb, _w = curve(rpd, replace(b, curve=None))  # the textbook line; a fit is drawn over it
@@ -678,7 +685,7 @@ class StrikelineApp(App[None]):
         try:
             inputs = self._plot_inputs()
         except NoMatches:
-            if self.is_running and self.default_screen.children:
+            if not self._closing():
                 raise
             return
         if inputs is None:
@@ -853,21 +860,24 @@ def make_app(
         session.event(port, kind, text)
         post(PortNote(port, kind, text))
 
-    source = None
+    make_source = None
     mode = "manual" if session.pressure_channel is None else "live"
     if replay is not None:
         session.use_gauge = session.pressure_channel is not None
-        source = ReplaySource(
-            replay,
-            on_reading,
-            lambda rec: post(ReplayNote(rec)),
-            speed=speed,
-            on_done=lambda: post(ReplayNote({"kind": "replay-end"})),
-        )
+
+        def make_source():
+            return ReplaySource(
+                replay,
+                on_reading,
+                lambda rec: post(ReplayNote(rec)),
+                speed=speed,
+                on_done=lambda: post(ReplayNote({"kind": "replay-end"})),
+            )
+
         mode = "replay"
     elif not manual and profile.ports and start_sources:
 
-        def source():
+        def make_source():
             from ..drivers.hub import Instruments
 
             return Instruments(profile.ports, on_reading, on_port)
@@ -877,7 +887,13 @@ def make_app(
         marker = _caution_marker()
         show_caution = not marker.exists()
     app = StrikelineApp(
-        session, source=source, mode=mode, show_caution=show_caution, caution_marker=marker, clock=clock, units=units
+        session,
+        make_source=make_source,
+        mode=mode,
+        show_caution=show_caution,
+        caution_marker=marker,
+        clock=clock,
+        units=units,
     )
     app_ref.append(app)
     return app

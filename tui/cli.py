@@ -222,33 +222,40 @@ def _bench_for(args: argparse.Namespace, *, need_gap: bool):
         if need_gap and gap is None:
             raise UsageError(f"strikeline {args.verb}: --gap needed without --bench, e.g. --gap 40mm")
         bench = Bench(name="command line", gas=find_gas(args.gas), cathode=find_cathode(args.cathode), gap=gap or 1.0)
-    if args.gamma is not None:
-        if not 0 < args.gamma <= 1:
+    gamma = getattr(args, "gamma", None)  # verbs without the option (fit) simply have none
+    if gamma is not None:
+        if not 0 < gamma <= 1:
             raise UsageError(
-                f"strikeline {args.verb}: --gamma {args.gamma!r}: give a yield above 0 and at most 1, e.g. 0.07"
+                f"strikeline {args.verb}: --gamma {gamma!r}: give a yield above 0 and at most 1, e.g. 0.07"
             )
-        bench = replace(bench, gamma=args.gamma)
-    if args.temperature is not None:
-        if not 20 <= args.temperature <= 3000:
-            raise UsageError(f"strikeline {args.verb}: --temperature {args.temperature:g} K: give 20 K to 3000 K")
-        bench = replace(bench, gas_temperature=args.temperature)
+        bench = replace(bench, gamma=gamma)
+    temperature = getattr(args, "temperature", None)
+    if temperature is not None:
+        if not 20 <= temperature <= 3000:
+            raise UsageError(f"strikeline {args.verb}: --temperature {temperature:g} K: give 20 K to 3000 K")
+        bench = replace(bench, gas_temperature=temperature)
     return bench
 
 
 def _sim_ports(profile):
-    """The built-in simulated controller, aimed at this bench's setpoint and supply."""
-    from dataclasses import replace as _replace
+    """The built-in simulated controller, aimed at this bench's setpoint, supply and gas: its
+    thermal gauge under-reads by the bench gas's own factor, and is corrected by it."""
+    from urllib.parse import quote
 
-    from ..profiles.loader import load_bench
+    from ..profiles.loader import gauge_correction, load_bench
 
-    demo = load_bench("demo")
     b = profile.bench
+    corr = gauge_correction("thermal", b.gas)
+    if corr.factor is None:  # no thermal factor known for this gas: simulate a diaphragm gauge
+        corr = gauge_correction("capacitance", b.gas)
     volts = b.supply.open_circuit_voltage if b.supply else 1200.0
-    ports = []
-    for port in demo.ports:
-        url = f"simbench://{b.name}?seed=1&gauge_factor=1.6&setpoint={b.pressure or 20.0:g}&voltage={volts:g}"
-        ports.append(_replace(port, url=url))
-    return _replace(profile, ports=tuple(ports), gauges=demo.gauges)
+    url = (
+        f"simbench://{quote(b.name)}?seed=1&gauge_factor={corr.factor:g}&setpoint={b.pressure or 20.0:g}"
+        f"&voltage={volts:g}"
+    )
+    ports = tuple(replace(port, url=url) for port in load_bench("demo").ports)
+    gauges = {c.name: corr for port in ports for c in port.channels if c.quantity == "pressure"}
+    return replace(profile, ports=ports, gauges=gauges)
 
 
 def cmd_live(args: argparse.Namespace) -> int:
@@ -346,7 +353,7 @@ def cmd_curve(args: argparse.Namespace) -> int:
         raise UsageError(
             f"strikeline curve: --from must be below --to (got {lo:g} and {hi:g} {'Pa' if gap else 'Pa m'})"
         )
-    from ..model.forecast import curve, effective_pressure
+    from ..model.forecast import curve, effective_pressure, law_name
 
     xs = np.geomspace(lo, hi, args.points)
     pd = xs * gap if gap is not None else xs
@@ -368,14 +375,13 @@ def cmd_curve(args: argparse.Namespace) -> int:
     source = "bench-curve" if fitted is not None else "textbook"
     out.write(",".join(cols) + "\n")
     for i in range(len(xs)):
-        law = "paschen" if w[i] == 0 else ("uniform-field" if w[i] >= 1 else "blend")
         v = "" if not np.isfinite(vb[i]) else f"{vb[i]:.10g}"
         row = ([f"{xs[i]:.10g}", f"{gap:.10g}"] if what == "pressure" else []) + [
             f"{pd[i]:.10g}",
             f"{rpd[i]:.10g}",
             v,
             str(br[i]),
-            law,
+            law_name(w[i]),
             source,
         ]
         out.write(",".join(row) + "\n")
@@ -506,8 +512,6 @@ def cmd_fit(args: argparse.Namespace) -> int:
     from ..profiles.strikes import read_strike_csv
     from .calibrate import calibrate, calibration_json, calibration_text, parse_free
 
-    args.gamma = None
-    args.temperature = None
     bench = _bench_for(args, need_gap=False)
     try:
         free = parse_free(args.free)

@@ -19,7 +19,7 @@ from ..drivers.reading import Reading, Status
 from ..model import units
 from ..model.bench import OperatingPoint
 from ..model.gauges import correct
-from ..profiles.loader import BenchProfile, find_cathode, find_gas
+from ..profiles.loader import BenchProfile, find_cathode, find_gas, gauge_correction
 
 if TYPE_CHECKING:  # the numeric model loads with the first forecast, not with the screen
     from ..model.forecast import Flag, Forecast
@@ -74,6 +74,8 @@ class View:
     pressure: PressureNow
     forecast: Forecast | None
     withdrawn: str | None
+    flag_changes: tuple[tuple[str, Flag], ...] = ()
+    """("raised" or "cleared", flag) since the previous view; a level change counts as raised."""
 
 
 class Session:
@@ -105,6 +107,8 @@ class Session:
             "voltage": None if self.bench.supply is None else self.bench.supply.open_circuit_voltage,
             "temperature": self.bench.gas_temperature,
         }
+        self.gauges = dict(profile.gauges)
+        """Gas correction by channel, for the gas in use (it follows a change of gas)."""
         self.strikes: list[StrikeMark] = []
         self._flags: dict[str, Flag] = {}
         self._summary: tuple | None = None
@@ -130,7 +134,7 @@ class Session:
             )
 
     def corrected(self, r: Reading) -> tuple[float | None, bool]:
-        corr = self.profile.gauges.get(r.channel)
+        corr = self.gauges.get(r.channel)
         if r.value is None or corr is None:
             return r.value, False
         return correct(r.value, corr)
@@ -181,11 +185,14 @@ class Session:
         return True
 
     def set_gas(self, name: str) -> str | None:
+        """Switch gas; the gauges' corrections follow it (a factor set by hand stays)."""
         try:
             gas = find_gas(name)
         except ValueError as e:
+            self._entry("gas", name, False, str(e))
             return str(e)
         self.bench = replace(self.bench, gas=gas, curve=None)
+        self.gauges = {ch: c if c.overridden else gauge_correction(c.kind, gas) for ch, c in self.gauges.items()}
         self._entry("gas", name, True, "")
         return None
 
@@ -193,6 +200,7 @@ class Session:
         try:
             cathode = find_cathode(name)
         except ValueError as e:
+            self._entry("cathode", name, False, str(e))
             return str(e)
         self.bench = replace(self.bench, cathode=cathode, gamma=None, curve=None)
         self._entry("cathode", name, True, "")
@@ -246,19 +254,18 @@ class Session:
 
             f = forecast(point, self.bench)
         withdrawn = p.withdrawn
-        self._log_changes(now, f, withdrawn)
-        return View(p, f, withdrawn)
+        changes = self._log_changes(now, f, withdrawn)
+        return View(p, f, withdrawn, changes)
 
-    def _log_changes(self, now: float, f: Forecast | None, withdrawn: str | None) -> None:
+    def _log_changes(self, now: float, f: Forecast | None, withdrawn: str | None) -> tuple[tuple[str, Flag], ...]:
         flags = {} if f is None else {x.code: x for x in f.flags}
+        changes = [
+            ("raised", x) for code, x in flags.items() if (old := self._flags.get(code)) is None or old.level != x.level
+        ]
+        changes += [("cleared", x) for code, x in self._flags.items() if code not in flags]
         if self.logbook is not None:
-            for code, x in flags.items():
-                old = self._flags.get(code)
-                if old is None or old.level != x.level:
-                    self.logbook.write("flag", code=code, level=x.level, reason=x.reason, change="raised")
-            for code, x in self._flags.items():
-                if code not in flags:
-                    self.logbook.write("flag", code=code, level=x.level, reason=x.reason, change="cleared")
+            for change, x in changes:
+                self.logbook.write("flag", code=x.code, level=x.level, reason=x.reason, change=change)
         self._flags = flags
         ll = None if f is None else f.load_line
         key = (
@@ -283,6 +290,7 @@ class Session:
                     "worst": f.worst,
                 }
             self.logbook.write("forecast", **rec)
+        return tuple(changes)
 
     def mark_strike(self, note: str = "") -> StrikeMark | str:
         """Record that the operator saw ignition now; returns the mark or why it cannot."""
