@@ -11,29 +11,12 @@ caller passes times in.
 from __future__ import annotations
 
 import math
-import re
-from dataclasses import dataclass, field
 
 from .reading import Reading, Status
+from .specs import Analog, ChannelSpec, PortSpec
+from .stats import PortStats
 
-__all__ = ["Analog", "ChannelParser", "ChannelSpec", "FrameStats", "LineFramer", "PortSpec", "RejectedLine"]
-
-
-@dataclass
-class FrameStats:
-    """Counts of what a port delivered, shown to the operator."""
-
-    lines: int = 0
-    readings: int = 0
-    garbled: int = 0
-    """Lines that matched no channel or did not decode."""
-    overflow: int = 0
-    """Runs of bytes longer than a line may be, dropped."""
-    timeouts: int = 0
-    """Queries with no complete answer in time."""
-    faults: int = 0
-    """Port errors (lost, missing, closed)."""
-    reconnects: int = 0
+__all__ = ["Analog", "ChannelParser", "ChannelSpec", "LineFramer", "PortSpec", "RejectedLine"]
 
 
 class LineFramer:
@@ -46,12 +29,12 @@ class LineFramer:
     [b'3.0']
     """
 
-    def __init__(self, terminator: bytes, max_line: int = 256, stats: FrameStats | None = None):
+    def __init__(self, terminator: bytes, max_line: int = 256, stats: PortStats | None = None):
         if not terminator:
             raise ValueError("terminator must not be empty")
         self.terminator = terminator
         self.max_line = max_line
-        self.stats = stats if stats is not None else FrameStats()
+        self.stats = stats if stats is not None else PortStats()
         self._buf = bytearray()
         self._discarding = False
 
@@ -87,68 +70,6 @@ class LineFramer:
         """Forget a partial line (after a timeout or a reconnect)."""
         self._buf.clear()
         self._discarding = False
-
-
-@dataclass(frozen=True)
-class Analog:
-    """A gauge's log-linear voltage characteristic, p = 10^((U - c) / k) in ``unit``."""
-
-    c: float
-    k: float
-    unit_factor: float
-    """SI value of one ``unit`` (e.g. 100 for mbar)."""
-    unit: str
-
-
-@dataclass(frozen=True)
-class ChannelSpec:
-    """How one channel's answers look (built from a bench profile)."""
-
-    name: str
-    quantity: str
-    pattern: re.Pattern[str]
-    """Must have a group ``value``; may have ``unit`` and ``status``."""
-    query: bytes | None = None
-    """What to send to poll this channel (None: the device streams)."""
-    unit_factor: float | None = None
-    """SI value of one unit where the answer carries none."""
-    units: dict[str, float] = field(default_factory=dict)
-    """Accepted unit texts (case-folded) and their SI factors, for a ``unit`` group."""
-    status_map: dict[str, Status] = field(default_factory=dict)
-    scale: float = 1.0
-    offset: float = 0.0
-    over_above: float | None = None
-    """SI value at or above which the reading is over range."""
-    under_below: float | None = None
-    analog: Analog | None = None
-    stale_after: float | None = None
-    """Seconds after which a reading is stale."""
-    encoding: str = "ascii"
-
-
-@dataclass(frozen=True)
-class PortSpec:
-    """One port and the channels read through it (built from a bench profile)."""
-
-    name: str
-    url: str
-    channels: tuple[ChannelSpec, ...]
-    mode: str = "polled"
-    """"polled" (send each channel's query, read the answer) or "streaming"."""
-    baudrate: int = 9600
-    bytesize: int = 8
-    parity: str = "N"
-    stopbits: float = 1
-    terminator: bytes = b"\r\n"
-    poll_interval: float = 0.5
-    """s between polling rounds."""
-    timeout: float = 0.5
-    """s to wait for an answer."""
-    lost_after: int = 3
-    """Consecutive unanswered polls after which a channel is reported lost."""
-    max_line: int = 256
-    source: str = "serial"
-    """How readings from this port are labelled ("serial" or "simulated")."""
 
 
 class RejectedLine(Exception):

@@ -11,12 +11,12 @@ import time
 from collections.abc import Callable, Sequence
 from typing import TYPE_CHECKING
 
-from .framing import FrameStats
 from .reading import Reading
+from .stats import PortStats, trouble_text
 
 if TYPE_CHECKING:  # pyserial loads only when instruments are started
-    from .framing import PortSpec
     from .port import Emit, Event
+    from .specs import PortSpec
 
 __all__ = ["Instruments", "Latest", "fault_summary"]
 
@@ -73,26 +73,11 @@ class Instruments:
         for r in self.readers:
             r.stop()
 
-    def stats(self) -> dict[str, FrameStats]:
+    def stats(self) -> dict[str, PortStats]:
         """What each port delivered and what went wrong, by port name."""
         return {r.spec.name: r.stats for r in self.readers}
 
 
-def fault_summary(stats: dict[str, FrameStats]) -> list[str]:
-    """One short text per port that has had trouble, e.g. "controller: 3 garbled, 1 timeout"."""
-    out = []
-    for port, st in stats.items():
-        parts = [
-            f"{n} {word}"
-            for n, word in (
-                (st.garbled, "garbled"),
-                (st.timeouts, "unanswered"),
-                (st.overflow, "overlong"),
-                (st.faults, "faults"),
-                (st.reconnects, "reconnects"),
-            )
-            if n
-        ]
-        if parts:
-            out.append(f"{port}: {', '.join(parts)}")
-    return out
+def fault_summary(stats: dict[str, PortStats]) -> list[str]:
+    """One short text per port that has had trouble, e.g. "controller: 3 garbled, 1 unanswered"."""
+    return [text for port, st in stats.items() if (text := trouble_text(port, st)) is not None]

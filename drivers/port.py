@@ -18,8 +18,10 @@ from collections.abc import Callable
 
 import serial
 
-from .framing import ChannelParser, FrameStats, LineFramer, PortSpec, RejectedLine
+from .framing import ChannelParser, LineFramer, RejectedLine
 from .reading import Reading, Status
+from .specs import PortSpec
+from .stats import PortStats
 
 __all__ = ["PortReader", "PortSpec", "register_url_handlers"]
 
@@ -71,7 +73,7 @@ class PortReader:
         self.on_event = on_event or (lambda port, kind, msg: None)
         self.clock, self.wall = clock, wall
         self.backoff = backoff
-        self.stats = FrameStats()
+        self.stats = PortStats()
         self.framer = LineFramer(spec.terminator, spec.max_line, self.stats)
         self.parsers = [ChannelParser(c, spec.source) for c in spec.channels]
         self._stop = threading.Event()

@@ -6,8 +6,9 @@ import re
 import pytest
 from hypothesis import given
 from hypothesis import strategies as st
-from strikeline.drivers.framing import Analog, ChannelParser, ChannelSpec, FrameStats, LineFramer, RejectedLine
+from strikeline.drivers.framing import Analog, ChannelParser, ChannelSpec, LineFramer, RejectedLine
 from strikeline.drivers.reading import Status
+from strikeline.drivers.stats import PortStats
 
 MBAR = 100.0
 SPEC_A = ChannelSpec(
@@ -41,7 +42,7 @@ def test_framer_handles_a_terminator_split_across_reads():
 
 
 def test_framer_drops_and_counts_floods_without_terminator():
-    stats = FrameStats()
+    stats = PortStats()
     f = LineFramer(b"\n", max_line=32, stats=stats)
     assert f.feed(b"x" * 10_000) == []
     assert f.feed(b"x" * 10_000 + b"\nok\n") == [b"ok"]
@@ -120,31 +121,45 @@ def test_random_splits_of_valid_frames_give_the_same_readings(frames, data):
 
 @given(st.binary(max_size=2000), st.integers(1, 64))
 def test_fuzz_random_bytes_give_only_well_formed_readings_or_rejects(blob, chunk):
-    stats = FrameStats()
+    stats = PortStats()
     f = LineFramer(b"\r", max_line=64, stats=stats)
     p = ChannelParser(SPEC_A)
+    lines = []
     for i in range(0, len(blob), chunk):
-        for line in f.feed(blob[i : i + chunk]):
-            try:
-                r = p.parse(line, 0.0, 0.0)
-            except RejectedLine:
-                continue
-            assert r.status in Status
-            if r.value is not None:
-                assert math.isfinite(r.value) and r.value > 0 and r.status is Status.OK
-    assert stats.lines + stats.overflow >= 0
-
-
-@given(st.lists(FRAMES | st.binary(max_size=30), max_size=200))
-def test_fuzz_floods_mixed_with_garbage(items):
-    stream = b"\r".join(items) + b"\r"
-    f = LineFramer(b"\r")
-    p = ChannelParser(SPEC_A)
-    good = 0
-    for line in f.feed(stream):
+        lines += f.feed(blob[i : i + chunk])
+    assert stats.lines == len(lines)  # every line handed on is counted, and none is longer than allowed
+    assert all(len(line) <= 64 and b"\r" not in line for line in lines)
+    for line in lines:
         try:
-            p.parse(line, 0.0, 0.0)
-            good += 1
+            r = p.parse(line, 0.0, 0.0)
         except RejectedLine:
-            pass
-    assert good <= len(items)
+            continue
+        assert r.status in Status
+        if r.value is not None:
+            assert math.isfinite(r.value) and r.value > 0 and r.status is Status.OK
+
+
+_UNIT = {b"mbar": 100.0, b"Torr": 101325 / 760, b"Pa": 1.0}
+
+
+def _in_range_ok(frame: bytes) -> bool:
+    status, number, unit = frame.split(b";")
+    return status == b"0" and float(number) * _UNIT[unit] < SPEC_A.over_above
+
+
+# A frame the parser must read back exactly (status ok, in range), or garbage without a terminator.
+TAGGED = st.tuples(st.just(True), FRAMES.filter(_in_range_ok)) | st.tuples(
+    st.just(False), st.binary(max_size=30).filter(lambda b: b"\r" not in b)
+)
+
+
+@given(st.lists(TAGGED, max_size=200))
+def test_fuzz_floods_mixed_with_garbage(items):
+    stream = b"".join(item + b"\r" for _, item in items)
+    lines = LineFramer(b"\r").feed(stream)
+    assert lines == [item for _, item in items]  # framing neither drops, splits nor joins a line
+    p = ChannelParser(SPEC_A)
+    for is_frame, line in zip((t for t, _ in items), lines, strict=True):
+        if is_frame:  # a valid frame reads back as the number and unit that were written
+            _st, number, unit = line.split(b";")
+            assert p.parse(line, 0.0, 0.0).value == pytest.approx(float(number) * _UNIT[unit], rel=1e-12)

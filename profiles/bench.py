@@ -1,0 +1,176 @@
+"""Bench profiles: load and validate a bench file (or a built-in bench) into a :class:`BenchProfile`.
+
+A bench file holds [bench], [supply], [[stray_gap]], [chamber], [[port]] and [curve] sections;
+every problem is one line naming the file, the section, the field and the accepted form. A
+fitted curve is saved back into the file atomically, the rest of the file kept as written.
+"""
+
+from __future__ import annotations
+
+import os
+import tempfile
+from collections.abc import Mapping
+from dataclasses import dataclass, field
+from importlib import resources
+from pathlib import Path
+
+from ..drivers.specs import PortSpec
+from ..model.bench import Bench, BenchCurve, Chamber, StrayGap, Supply
+from ..model.gauges import GaugeCorrection
+from .benchcurve import curve_section, with_curve_section
+from .fields import ProfileError, Table, read_toml
+from .gasdata import find_cathode, find_gas
+from .ports import port_sections
+
+__all__ = ["BUILTIN_BENCHES", "BenchProfile", "load_bench", "parse_bench", "save_curve", "write_atomic"]
+
+BUILTIN_BENCHES = ("demo", "demo-magnetron")
+
+
+@dataclass(frozen=True)
+class BenchProfile:
+    """A loaded bench file: the model's :class:`Bench` plus where it came from."""
+
+    bench: Bench
+    path: Path | None
+    """The file, or None for a built-in bench."""
+    label: str
+    """How to name it to the user ("demo" or the path)."""
+    description: str = ""
+    """The profile's own words about the bench (shown with its name)."""
+    ports: tuple[PortSpec, ...] = ()
+    """Instrument ports and their channels."""
+    gauges: Mapping[str, GaugeCorrection] = field(default_factory=dict)
+    """Gas correction by pressure-channel name."""
+
+
+_BENCH_FIELDS = (
+    "name",
+    "description",
+    "gas",
+    "cathode",
+    "gap",
+    "gas_temperature",
+    "gamma",
+    "pressure",
+    "cathode_area",
+    "magnetic_field",
+)
+_SECTIONS = ("bench", "supply", "stray_gap", "chamber", "port", "curve")
+
+
+def load_bench(ref: str | os.PathLike[str]) -> BenchProfile:
+    """Load a bench file, or a built-in bench by name ("demo", "demo-magnetron")."""
+    ref_s = os.fspath(ref)
+    if ref_s in BUILTIN_BENCHES:
+        text = resources.files("strikeline.profiles").joinpath("benches", f"{ref_s}.toml").read_text("utf-8")
+        return parse_bench(text, ref_s, None)
+    path = Path(ref_s).expanduser()
+    try:
+        text = path.read_text(encoding="utf-8")
+    except FileNotFoundError:
+        raise ProfileError(
+            f"bench {ref_s!r}: no such file; give a bench profile (.toml) or one of {', '.join(BUILTIN_BENCHES)}"
+        ) from None
+    except (OSError, UnicodeDecodeError) as e:
+        raise ProfileError(f"bench {ref_s!r}: cannot be read ({e.__class__.__name__}: {e})") from None
+    return parse_bench(text, str(path), path)
+
+
+def parse_bench(text: str, label: str, path: Path | None) -> BenchProfile:
+    """Validate bench TOML text (``label`` names it in errors)."""
+    raw = read_toml(text, label)
+    top = Table(label, "", raw)
+    top.only(_SECTIONS)
+    b = top.sub("bench")
+    if b is None:
+        raise ProfileError(f"{label}: [bench] missing; it holds gas, cathode and gap")
+    b.only(_BENCH_FIELDS)
+    try:
+        gas = find_gas(b.string("gas"))
+        cathode = find_cathode(b.string("cathode"))
+    except ProfileError as e:
+        raise ProfileError(f"{label}: [bench] {e}") from None
+    supply = None
+    if (s := top.sub("supply")) is not None:
+        s.only(("open_circuit_voltage", "current_limit", "ballast", "mode", "frequency", "off_time"))
+        mode = s.string("mode", default="dc", choices=("dc", "pulsed")).casefold()
+        freq = s.quantity("frequency", "frequency", 1.0, 1e8, required=mode == "pulsed")
+        off = s.quantity("off_time", "time", 1e-9, 10.0, required=mode == "pulsed")
+        if mode == "pulsed" and off >= 1.0 / freq:
+            raise s.fail("off_time", f"{s.data['off_time']!r} is not shorter than one period (1/frequency)")
+        supply = Supply(
+            open_circuit_voltage=s.quantity("open_circuit_voltage", "voltage", 1.0, 1e6),
+            current_limit=s.quantity("current_limit", "current", 1e-9, 1e4, required=False),
+            ballast=s.quantity("ballast", "resistance", 0.0, 1e10, required=False, allow_zero=True) or 0.0,
+            mode=mode,
+            frequency=freq if mode == "pulsed" else None,
+            off_time=off if mode == "pulsed" else None,
+        )
+    stray: list[StrayGap] = []
+    if "stray_gap" in raw:
+        items = raw["stray_gap"]
+        if not isinstance(items, list):
+            raise ProfileError(f"{label}: [[stray_gap]] must be a list of tables ([[stray_gap]] blocks)")
+        for i, item in enumerate(items, 1):
+            g = Table(label, f"stray_gap #{i}", item)
+            g.only(("name", "length"))
+            stray.append(StrayGap(g.string("name"), g.quantity("length", "length", 1e-6, 10.0)))
+    chamber = None
+    if (c := top.sub("chamber")) is not None:
+        c.only(("radius", "length"))
+        chamber = Chamber(c.quantity("radius", "length", 1e-3, 10.0), c.quantity("length", "length", 1e-3, 10.0))
+    ports, gauges = port_sections(raw, label, gas)
+    curve = curve_section(top.sub("curve"), gas, cathode)
+    bench = Bench(
+        name=b.string("name", default=path.stem if path else label),
+        gas=gas,
+        cathode=cathode,
+        gap=b.quantity("gap", "length", 1e-6, 10.0),
+        gas_temperature=b.quantity("gas_temperature", "temperature", 20.0, 3000.0, required=False) or 293.15,
+        gamma=b.number("gamma", 1e-6, 1.0, required=False),
+        supply=supply,
+        cathode_area=b.quantity("cathode_area", "area", 1e-8, 10.0, required=False),
+        magnetic_field=b.quantity("magnetic_field", "field", 1e-6, 10.0, required=False),
+        stray_gaps=tuple(stray),
+        chamber=chamber,
+        pressure=b.quantity("pressure", "pressure", 1e-6, 1e6, required=False),
+        curve=curve,
+    )
+    description = b.string("description", default="") if b.has("description") else ""
+    return BenchProfile(bench, path, label, description, ports, gauges)
+
+
+def save_curve(path: str | os.PathLike[str], curve: BenchCurve) -> BenchProfile:
+    """Put ``curve`` into the bench file at ``path`` (replacing any [curve] section), keeping
+    the rest of the file as written. The result is validated before an atomic write."""
+    ref = os.fspath(path)
+    if ref in BUILTIN_BENCHES:
+        raise ProfileError(f"bench {ref!r} is built in and cannot be changed; copy it to a file and save there")
+    p = Path(ref).expanduser()
+    try:
+        text = p.read_text(encoding="utf-8")
+    except (OSError, UnicodeDecodeError) as e:
+        raise ProfileError(f"bench {ref!r}: cannot be read ({getattr(e, 'strerror', None) or e})") from None
+    new = with_curve_section(text, curve)
+    profile = parse_bench(new, str(p), p)  # never write a file that would not load
+    try:
+        write_atomic(p, new)
+    except OSError as e:
+        raise ProfileError(f"bench {ref!r}: cannot be written ({e.strerror or e}); the file is unchanged") from None
+    return profile
+
+
+def write_atomic(path: Path, text: str) -> None:
+    """Write ``text`` through a temporary file in the same folder and a rename, so a crash
+    leaves the old file or the new one, never half of either."""
+    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8") as f:
+            f.write(text)
+            f.flush()
+            os.fsync(f.fileno())
+        os.replace(tmp, path)
+    except BaseException:
+        Path(tmp).unlink(missing_ok=True)
+        raise

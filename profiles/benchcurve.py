@@ -1,0 +1,114 @@
+"""A bench curve fitted to this bench's strikes, as the [curve] section of its bench file.
+
+``strikeline fit --save`` writes it with :func:`with_curve_section`; the loader reads it back
+with :func:`curve_section`, refusing a curve fitted for another gas or cathode.
+"""
+
+from __future__ import annotations
+
+import math
+
+from ..model.bench import BenchCurve, Cathode, Gas
+from .fields import ProfileError, Table
+from .gasdata import find_cathode, find_gas
+
+__all__ = ["curve_section", "curve_toml", "with_curve_section"]
+
+_CURVE_FIELDS = (
+    "gas",
+    "cathode",
+    "fitted_on",
+    "n_points",
+    "free",
+    "A_per_Pa_m",
+    "B_V_per_Pa_m",
+    "gamma",
+    "A_sigma",
+    "B_sigma",
+    "gamma_sigma",
+    "covariance_ln",
+    "residual_scale",
+    "t_quantile",
+    "rms_residual_V",
+    "pd_low_Pa_m",
+    "pd_high_Pa_m",
+)
+
+
+def curve_section(t: Table | None, gas: Gas, cathode: Cathode) -> BenchCurve | None:
+    """The fitted bench curve, as ``strikeline fit --save`` writes it."""
+    if t is None:
+        return None
+    t.only(_CURVE_FIELDS)
+    try:
+        fitted_gas, fitted_cathode = find_gas(t.string("gas")), find_cathode(t.string("cathode"))
+    except ProfileError as e:
+        raise ProfileError(f"{t.file}: [curve] {e}") from None
+    if fitted_gas.key != gas.key or fitted_cathode.key != cathode.key:
+        raise t.fail(
+            "gas",
+            f"the curve was fitted for {fitted_gas.key} on {fitted_cathode.key}, but the bench is {gas.key} on "
+            f"{cathode.key}: refit it, or delete the [curve] section",
+        )
+    cov = t.data.get("covariance_ln")
+    ok = (
+        isinstance(cov, list)
+        and len(cov) == 3
+        and all(
+            isinstance(r, list) and len(r) == 3 and all(isinstance(x, int | float) and math.isfinite(x) for x in r)
+            for r in cov
+        )
+    )
+    if not ok:
+        raise t.fail("covariance_ln", "is not a 3 x 3 list of numbers")
+    free = t.data.get("free", ["A", "B"])
+    if not isinstance(free, list) or not set(free) <= {"A", "B", "gamma"}:
+        raise t.fail("free", f"{free!r} is not a list drawn from A, B, gamma")
+    return BenchCurve(
+        A=t.number("A_per_Pa_m", 1e-3, 1e4),
+        B=t.number("B_V_per_Pa_m", 1e-1, 1e5),
+        gamma=t.number("gamma", 1e-6, 1.0),
+        A_sigma=t.number("A_sigma", 0, 1e6),
+        B_sigma=t.number("B_sigma", 0, 1e7),
+        gamma_sigma=t.number("gamma_sigma", 0, 10),
+        covariance=tuple(tuple(float(x) for x in r) for r in cov),
+        rms_residual=t.number("rms_residual_V", 0, 1e6),
+        n_points=int(t.number("n_points", 1, 1e6)),
+        pd_low=t.number("pd_low_Pa_m", 1e-9, 1e6),
+        pd_high=t.number("pd_high_Pa_m", 1e-9, 1e6),
+        gas=gas.key,
+        cathode=cathode.key,
+        fitted_on=t.string("fitted_on"),
+        residual_scale=t.number("residual_scale", 0, 10),
+        t_quantile=t.number("t_quantile", 0.5, 1000),
+        free=tuple(free),
+    )
+
+
+def curve_toml(c: BenchCurve) -> str:
+    """The ``[curve]`` section for a fitted bench curve."""
+    cov = ", ".join("[" + ", ".join(repr(x) for x in row) + "]" for row in c.covariance)
+    return (
+        "[curve]\n"
+        "# Fitted by strikeline fit: Paschen's law on this bench's strike marks. Do not edit by hand.\n"
+        f'gas = "{c.gas}"\ncathode = "{c.cathode}"\nfitted_on = "{c.fitted_on}"\nn_points = {c.n_points}\n'
+        f"free = [{', '.join(repr(p).replace(chr(39), chr(34)) for p in c.free)}]\n"
+        f"A_per_Pa_m = {c.A!r}\nB_V_per_Pa_m = {c.B!r}\ngamma = {c.gamma!r}\n"
+        f"A_sigma = {c.A_sigma!r}\nB_sigma = {c.B_sigma!r}\ngamma_sigma = {c.gamma_sigma!r}\n"
+        f"covariance_ln = [{cov}]\nresidual_scale = {c.residual_scale!r}\nt_quantile = {c.t_quantile!r}\n"
+        f"rms_residual_V = {c.rms_residual!r}\npd_low_Pa_m = {c.pd_low!r}\npd_high_Pa_m = {c.pd_high!r}\n"
+    )
+
+
+def with_curve_section(text: str, curve: BenchCurve) -> str:
+    """Bench-file ``text`` with its [curve] section (if any) replaced by ``curve``'s; every other
+    line is kept as the user wrote it."""
+    kept: list[str] = []
+    skipping = False
+    for line in text.splitlines():
+        stripped = line.strip()
+        if stripped.startswith("["):
+            skipping = stripped.replace(" ", "") == "[curve]"
+        if not skipping:
+            kept.append(line)
+    return "\n".join(kept).rstrip() + "\n\n" + curve_toml(curve)

@@ -1,0 +1,203 @@
+"""The gas and cathode data (``profiles/data/*.toml``), loaded once into the model's types.
+
+Every number carries its source in the data files; a name is found by its key, symbol or
+any alias, in any case.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Mapping
+from dataclasses import replace
+from functools import cache
+from importlib import resources
+
+from ..model import constants as _c
+from ..model.bench import Cathode, Gas, NormalGlow, TownsendConstants, UniformFieldLaw, Yield
+from .fields import ProfileError, Table, name_key, read_toml
+
+__all__ = [
+    "PER_CM_TORR",
+    "cathodes",
+    "data_text",
+    "find_cathode",
+    "find_gas",
+    "gases",
+    "unsupported_gases",
+]
+
+PER_CM_TORR = 1.0 / (_c.centi * _c.torr)
+"""1/(cm Torr) in 1/(Pa m), and V/(cm Torr) in V/(Pa m)."""
+
+
+def data_text(name: str) -> str:
+    """The text of one of the shipped data files (``profiles/data/<name>``)."""
+    return resources.files("strikeline.profiles").joinpath("data", name).read_text(encoding="utf-8")
+
+
+@cache
+def _gas_tables() -> tuple[dict[str, Gas], dict[str, str], dict[str, str]]:
+    """(gases by key, key by any accepted name, reason by any name of an unsupported gas)."""
+    file = "gases.toml"
+    raw = read_toml(data_text(file), file)
+    out: dict[str, Gas] = {}
+    names: dict[str, str] = {}
+    unsupported: dict[str, str] = {}
+    for key, data in raw.items():
+        t = Table(file, key, data)
+        aliases = (key, t.string("symbol"), *data.get("aliases", ()))
+        if t.has("unsupported"):
+            for alias in aliases:
+                unsupported[name_key(alias)] = t.string("unsupported")
+            continue
+        for alias in aliases:
+            names[name_key(alias)] = key
+        law = None
+        if (lt := t.sub("uniform_field_law")) is not None:
+            law = UniformFieldLaw(
+                a=lt.number("a_kV_per_cm", 0, 1e3) * _c.kilo / _c.centi,
+                b=lt.number("b_kV_per_sqrt_cm", 0, 1e3) * _c.kilo / math.sqrt(_c.centi),
+                reference_pressure=lt.number("reference_pressure_Torr", 1, 1e4) * _c.torr,
+                reference_temperature=lt.number("reference_temperature_K", 1, 1e4),
+                blend_from=lt.number("blend_from_cm", 0, 1e3) * _c.centi,
+                blend_to=lt.number("blend_to_cm", 0, 1e3) * _c.centi,
+                valid_to=lt.number("valid_to_cm", 0, 1e3) * _c.centi,
+                source=lt.string("source"),
+            )
+        lo, hi = t.pair("E_over_p_V_per_cm_Torr", 0, 1e5)
+        constants = TownsendConstants(
+            A=t.number("A_per_cm_Torr", 0.01, 1e3) * PER_CM_TORR,
+            B=t.number("B_V_per_cm_Torr", 1, 1e4) * PER_CM_TORR,
+            E_over_p_low=lo * PER_CM_TORR,
+            E_over_p_high=hi * PER_CM_TORR,
+            reference_temperature=t.number("reference_temperature_K", 1, 1e4),
+            source=t.string("source"),
+        )
+        out[key] = Gas(
+            key=key,
+            symbol=t.string("symbol"),
+            constants=constants,
+            law=law,
+            ionisation_energy=t.number("ionisation_energy_eV", 1, 100),
+            molar_mass=t.number("molar_mass_g_per_mol", 1, 1000) * 1e-3,
+            ion_mobility=t.number("ion_mobility_cm2_per_V_s", 0.01, 100) * _c.centi**2,
+            ion_mobility_source=t.string("ion_mobility_source"),
+            electron_collision_per_Pa=t.number("electron_collision_per_s_Torr", 1e6, 1e12) / _c.torr,
+            noble=bool(t.data.get("noble", False)),
+        )
+    return out, names, unsupported
+
+
+def gases() -> dict[str, Gas]:
+    """All supported gases by canonical key."""
+    return dict(_gas_tables()[0])
+
+
+def unsupported_gases() -> dict[str, str]:
+    """Names of gases listed but not supported by this law, with the reason."""
+    return dict(_gas_tables()[2])
+
+
+def find_gas(name: str) -> Gas:
+    """The gas called ``name`` (name, symbol or alias, any case), or a one-line error."""
+    table, names, unsupported = _gas_tables()
+    k = name_key(name)
+    if k in names:
+        return table[names[k]]
+    if k in unsupported:
+        raise ProfileError(f"gas {name!r} is not supported: {unsupported[k]}")
+    known = ", ".join(f"{g.symbol} ({g.key})" if g.symbol.casefold() != g.key else g.key for g in table.values())
+    raise ProfileError(f"gas {name!r}: unknown; use one of {known}")
+
+
+@cache
+def _cathode_tables() -> tuple[dict[str, Cathode], dict[str, str]]:
+    file = "cathodes.toml"
+    raw = read_toml(data_text(file), file)
+    gas_names = _gas_tables()[1]
+    out: dict[str, Cathode] = {}
+    names: dict[str, str] = {}
+    for key, data in raw.items():
+        t = Table(file, key, data)
+        lo, hi = t.pair("gamma_range", 1e-6, 1)
+        default = Yield(t.number("gamma_default", 1e-6, 1), lo, hi, t.string("gamma_source"))
+        yields: dict[str, Yield] = {}
+        if (gt := t.sub("gamma")) is not None:
+            for gas_key in gt.data:
+                y = gt.sub(gas_key)
+                ylo, yhi = y.pair("range", 1e-6, 1)
+                yields[_gas_ref(gas_key, gas_names, y)] = Yield(
+                    y.number("value", 1e-6, 1), ylo, yhi, y.string("source")
+                )
+        glows: dict[str, NormalGlow] = {}
+        if (nt := t.sub("normal_glow")) is not None:
+            for gas_key in nt.data:
+                g = nt.sub(gas_key)
+                j = g.number("j_per_p2_uA_per_cm2_Torr2", 1e-3, 1e5, required=False)
+                pdn = g.number("pd_Torr_cm", 1e-3, 100, required=False)
+                glows[_gas_ref(gas_key, gas_names, g)] = NormalGlow(
+                    cathode_fall=g.number("cathode_fall_V", 10, 2000),
+                    current_density_per_p2=None if j is None else j * 1e-6 / _c.centi**2 / _c.torr**2,
+                    pd_n=None if pdn is None else pdn * _c.torr * _c.centi,
+                    source=g.string("source"),
+                )
+        out[key] = Cathode(
+            key=key,
+            symbol=t.string("symbol"),
+            work_function=t.number("work_function_eV", 1, 10),
+            default_yield=default,
+            yields=yields,
+            normal_glow=glows,
+            note=t.string("note", default="") if t.has("note") else "",
+        )
+        for alias in (key, data["symbol"], *data.get("aliases", ())):
+            names[name_key(alias)] = key
+    return _borrow_iron_glow(out), names
+
+
+def _borrow_iron_glow(table: dict[str, Cathode]) -> dict[str, Cathode]:
+    """Fill normal-glow gaps from the iron rows of the same gas: j_n/p^2 and p d_n depend
+    mainly on the gas, V_n strongly on the cathode, so a cathode's own V_n is kept where
+    it has one. Every borrowed number says so in its source."""
+    iron = table.get("stainless")
+    if iron is None:
+        return table
+    out = {}
+    for key, cat in table.items():
+        rows = dict(cat.normal_glow)
+        if key != "stainless":
+            for gas_key, fe in iron.normal_glow.items():
+                own = rows.get(gas_key)
+                if own is None:
+                    rows[gas_key] = replace(fe, source=f"iron values used for {cat.key}: {fe.source}")
+                elif own.current_density_per_p2 is None:
+                    rows[gas_key] = replace(
+                        own,
+                        current_density_per_p2=fe.current_density_per_p2,
+                        pd_n=fe.pd_n,
+                        source=f"{own.source}; j_n/p^2 and p d_n from iron: {fe.source}",
+                    )
+        out[key] = replace(cat, normal_glow=rows)
+    return out
+
+
+def _gas_ref(name: str, gas_names: Mapping[str, str], t: Table) -> str:
+    k = name_key(name)
+    if k not in gas_names:
+        raise ProfileError(f"{t.file}: [{t.where}]: {name!r} is not a known gas")
+    return gas_names[k]
+
+
+def cathodes() -> dict[str, Cathode]:
+    """All cathode materials by canonical key."""
+    return dict(_cathode_tables()[0])
+
+
+def find_cathode(name: str) -> Cathode:
+    """The cathode called ``name`` (name, symbol or alias, any case), or a one-line error."""
+    table, names = _cathode_tables()
+    k = name_key(name)
+    if k in names:
+        return table[names[k]]
+    known = ", ".join(f"{c.symbol} ({c.key})" for c in table.values())
+    raise ProfileError(f"cathode {name!r}: unknown; use one of {known}")
