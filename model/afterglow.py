@@ -1,21 +1,33 @@
 """Afterglow between pulses: ambipolar diffusion to the walls and the charge left.
 
 SI: mobilities in m^2/(V s), diffusion coefficients in m^2/s, lengths in m, times in s,
-temperatures in eV where named so.
+temperatures in eV where named so. :func:`afterglow_between_pulses` composes the formulas
+for a bench and says what the charge left after the supply's off-time means.
 """
 
 from __future__ import annotations
 
 import math
 
+from .bench import Bench, OperatingPoint
+from .results import Afterglow, Flag
+
 __all__ = [
     "BESSEL_J0_FIRST_ZERO",
+    "GLOW_TE_EV",
+    "GLOW_TI_EV",
+    "afterglow_between_pulses",
     "ambipolar_diffusion",
     "cylinder_diffusion_length",
     "decay_time",
     "ion_mobility",
     "residual_fraction",
 ]
+
+GLOW_TE_EV = 2.0
+"""Electron temperature of a glow's bulk, eV (1-5 eV: common practice)."""
+GLOW_TI_EV = 0.03
+"""Ion temperature, eV (about room temperature: common practice)."""
 
 BESSEL_J0_FIRST_ZERO = 2.404825557695773
 """First zero of the Bessel function J0 (tests compare it with scipy.special.jn_zeros)."""
@@ -73,3 +85,43 @@ def residual_fraction(off_time: float, tau: float) -> float:
     0.367879
     """
     return math.exp(-off_time / tau)
+
+
+def afterglow_between_pulses(point: OperatingPoint, bench: Bench) -> tuple[Afterglow | None, list[Flag]]:
+    """The afterglow in the bench's chamber at ``point`` and, for a pulsed supply, the charge left
+    after its off-time, with a flag saying whether each pulse re-ignites easily. None without a
+    chamber."""
+    if bench.chamber is None:
+        return None, []
+    gas = bench.gas
+    mu = ion_mobility(gas.ion_mobility, point.pressure, point.gas_temperature)
+    D_a = ambipolar_diffusion(mu, GLOW_TE_EV, GLOW_TI_EV)
+    lam = cylinder_diffusion_length(bench.chamber.radius, bench.chamber.length)
+    tau = decay_time(lam, D_a)
+    s = bench.supply
+    off = s.off_time if s is not None and s.mode == "pulsed" else None
+    resid = None if off is None else residual_fraction(off, tau)
+    result = Afterglow(D_a, lam, tau, resid, off, GLOW_TE_EV, GLOW_TI_EV)
+    if resid is None:
+        return result, []
+    method = (
+        f"ambipolar diffusion D_a = mu_i k (T_e + T_i)/e at T_e {GLOW_TE_EV:g} eV, T_i {GLOW_TI_EV:g} eV "
+        f"({gas.ion_mobility_source}); cylinder diffusion length"
+    )
+    if resid >= 0.1:
+        flag = Flag(
+            "afterglow_carries_over",
+            "ok",
+            f"decay time {tau * 1e6:.3g} us against a {off * 1e6:.3g} us off-time: {resid:.0%} of the charge is "
+            "left, so each pulse re-ignites easily",
+            method,
+        )
+    else:
+        flag = Flag(
+            "afterglow_lost",
+            "watch",
+            f"decay time {tau * 1e6:.3g} us against a {off * 1e6:.3g} us off-time: only {resid:.1%} of the charge "
+            "is left, so each pulse must break the gap down afresh (expect ignition delay and jitter)",
+            method,
+        )
+    return result, [flag]

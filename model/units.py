@@ -101,8 +101,8 @@ _KINDS: dict[str, _Kind] = {
     "time": _Kind(
         "time",
         "s",
-        {"s": 1.0, "ms": _c.milli, "us": _c.micro, "µs": _c.micro, "ns": _c.nano, "min": 60.0},
-        '"5 us", "2 ms", "10 s"',
+        {"s": 1.0, "ms": _c.milli, "us": _c.micro, "µs": _c.micro, "ns": _c.nano, "min": 60.0, "h": 3600.0},
+        '"5 us", "2 ms", "10 s", "8 h"',
     ),
     "area": _Kind("area", "m2", {"m2": 1.0, "cm2": _c.centi**2, "mm2": _c.milli**2}, '"20 cm2", "0.002 m2"'),
 }

@@ -22,10 +22,10 @@ def test_number_density_matches_loschmidt_constant():
     assert townsend.number_density(101325.0, 273.15) == pytest.approx(n0, rel=1e-9)
 
 
-def test_raether_gain_is_about_1e8_at_alpha_d_near_18_to_20():
-    # Raether-Meek: ~1e8 electrons, alpha x about 18-20 (Raether 1964; check-values.md, found).
-    assert 18 <= math.log(1e8) <= 20
-    assert townsend.avalanche_gain(math.log(1e8)) == pytest.approx(1e8)
+@pytest.mark.parametrize("ad", [0.0, 1.0, 4.6, 18.4, 20.0])
+def test_avalanche_gain_is_exp_alpha_d(ad):
+    # Townsend's avalanche: n(d) / n(0) = exp(alpha d) (definition), against math.exp.
+    assert townsend.avalanche_gain(ad) == pytest.approx(math.exp(ad), rel=1e-15)
 
 
 @given(st.floats(min_value=0, max_value=4), st.floats(min_value=1e-3, max_value=0.5))

@@ -1,0 +1,224 @@
+"""What a forecast returns: flags, stray-gap and afterglow results, the Forecast and its JSON.
+
+Plain frozen data in SI units; :mod:`strikeline.model.forecast` fills them in.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import asdict, dataclass, field
+from typing import TYPE_CHECKING, Any
+
+if TYPE_CHECKING:
+    from .glow import LoadLine
+
+__all__ = ["LEVELS", "Afterglow", "Flag", "Forecast", "StrayResult", "finite_or_none", "json_safe"]
+
+LEVELS = ("ok", "watch", "danger")
+"""Flag levels, mildest first."""
+
+
+@dataclass(frozen=True)
+class Flag:
+    """One judgement on the operating point."""
+
+    code: str
+    """Short stable identifier, e.g. "outside_fitted_range"."""
+    level: str
+    """"ok", "watch" or "danger"."""
+    reason: str
+    """One line with the numbers behind it."""
+    method: str = ""
+    """Where the method comes from."""
+
+
+@dataclass(frozen=True)
+class StrayResult:
+    """One stray gap checked at the operating pressure."""
+
+    name: str
+    length: float
+    """m."""
+    breakdown_voltage: float | None
+    """V, None where no voltage breaks it down."""
+    first: bool
+    """Breaks down at or below the main gap's voltage."""
+
+
+@dataclass(frozen=True)
+class Afterglow:
+    """Free decay of the plasma by ambipolar diffusion to the chamber walls."""
+
+    ambipolar_diffusion: float
+    """D_a, m^2/s."""
+    diffusion_length: float
+    """Lambda, m."""
+    decay_time: float
+    """tau = Lambda^2 / D_a, s."""
+    residual_fraction: float | None
+    """exp(-t_off / tau) after the supply's off-time (None for a DC supply)."""
+    off_time: float | None
+    electron_temperature_eV: float
+    ion_temperature_eV: float
+
+
+@dataclass(frozen=True)
+class Forecast:
+    """What the model says about one operating point on one bench (SI units)."""
+
+    gas: str
+    cathode: str
+    gamma: float
+    gamma_range: tuple[float, float]
+    gamma_source: str
+    A: float
+    B: float
+    constants_source: str
+    pressure: float
+    gap: float
+    gas_temperature: float
+    reference_temperature: float
+    pd: float
+    reduced_pd: float
+    breakdown_voltage: float | None
+    law: str
+    """"paschen", "uniform-field" or "blend" (the two laws mixed near their meeting point)."""
+    minimum_pd: float
+    minimum_voltage: float
+    minimum_pressure: float
+    """The pressure at which this gap sits at the minimum, Pa (at this gas temperature)."""
+    no_breakdown_pressure: float
+    """Below this pressure (at this gap) no voltage breaks the gap down, Pa."""
+    branch: str
+    breakdown_E_over_p: float | None
+    voltage: float | None = None
+    E_over_N_Td: float | None = None
+    alpha: float | None = None
+    alpha_d: float | None = None
+    gain: float | None = None
+    current_growth: float | None = None
+    margin: float | None = None
+    strikes: bool | None = None
+    effective_pressure: float | None = None
+    """Crossed-field effective pressure for a magnetised cathode, Pa (None: unmagnetised)."""
+    hall_parameter: float | None = None
+    """omega_ce / nu_m at the cathode (None: unmagnetised)."""
+    breakdown_band: tuple[float | None, float | None] = (None, None)
+    """V_b's plausible range (V): the gamma range and the constants' own uncertainty, or the
+    bench curve's 95 % prediction band."""
+    band_source: str = ""
+    """What the band is made of, in words."""
+    margin_fraction: float | None = None
+    """(V - V_b) / V_b."""
+    stray_gaps: tuple[StrayResult, ...] = ()
+    load_line: LoadLine | None = None
+    afterglow: Afterglow | None = None
+    flags: tuple[Flag, ...] = field(default_factory=tuple)
+
+    @property
+    def worst(self) -> str:
+        """The most severe flag level present ("ok" when there is none)."""
+        return max((f.level for f in self.flags), key=LEVELS.index, default="ok")
+
+    def to_json(self) -> dict[str, Any]:
+        """The ``strike --json`` contract: SI units, keys as in ARCHITECTURE.md."""
+        out: dict[str, Any] = {
+            "gas": self.gas,
+            "cathode": self.cathode,
+            "gamma": self.gamma,
+            "gamma_range": list(self.gamma_range),
+            "gamma_source": self.gamma_source,
+            "constants": {
+                "A_per_Pa_m": self.A,
+                "B_V_per_Pa_m": self.B,
+                "source": self.constants_source,
+            },
+            "law": self.law,
+            "pressure_Pa": self.pressure,
+            "gap_m": self.gap,
+            "gas_temperature_K": self.gas_temperature,
+            "reference_temperature_K": self.reference_temperature,
+            "pd_Pa_m": self.pd,
+            "reduced_pd_Pa_m": self.reduced_pd,
+            "breakdown_V": self.breakdown_voltage,
+            "breakdown_E_over_p_V_per_Pa_m": self.breakdown_E_over_p,
+            "minimum": {
+                "pd_Pa_m": self.minimum_pd,
+                "voltage_V": self.minimum_voltage,
+                "pressure_Pa": self.minimum_pressure,
+            },
+            "no_breakdown_below_Pa": self.no_breakdown_pressure,
+            "branch": self.branch,
+        }
+        if self.voltage is not None:
+            out |= {
+                "voltage_V": self.voltage,
+                "E_over_N_Td": self.E_over_N_Td,
+                "alpha_per_m": self.alpha,
+                "alpha_d": self.alpha_d,
+                "gain": self.gain,
+                "current_growth": self.current_growth,
+                "margin_V": self.margin,
+                "margin_fraction": self.margin_fraction,
+                "strikes": self.strikes,
+            }
+        out["breakdown_band_V"] = list(self.breakdown_band)
+        out["breakdown_band_source"] = self.band_source
+        if self.effective_pressure is not None:
+            out["magnetised"] = {
+                "effective_pressure_Pa": self.effective_pressure,
+                "hall_parameter": self.hall_parameter,
+            }
+        out["stray_gaps"] = [
+            {"name": g.name, "length_m": g.length, "breakdown_V": g.breakdown_voltage, "first": g.first}
+            for g in self.stray_gaps
+        ]
+        if self.load_line is not None:
+            ll = self.load_line
+            out["load_line"] = {
+                "current_A": ll.current,
+                "voltage_V": ll.voltage,
+                "regime": ll.regime,
+                "covered_fraction": ll.covered_fraction,
+                "limited_by": ll.limited_by,
+                "current_density_A_per_m2": ll.current_density,
+                "short_circuit_current_A": ll.short_circuit_current,
+            }
+        if self.afterglow is not None:
+            a = self.afterglow
+            out["afterglow"] = {
+                "ambipolar_D_m2_per_s": a.ambipolar_diffusion,
+                "diffusion_length_m": a.diffusion_length,
+                "decay_time_s": a.decay_time,
+                "residual_fraction": a.residual_fraction,
+                "off_time_s": a.off_time,
+                "electron_temperature_eV": a.electron_temperature_eV,
+                "ion_temperature_eV": a.ion_temperature_eV,
+            }
+        out["flags"] = [asdict(f) for f in self.flags]
+        return json_safe(out)
+
+
+def json_safe(x: Any) -> Any:
+    """``x`` with every non-finite float replaced by None, so JSON never carries NaN or Infinity.
+
+    >>> json_safe({"a": [1.0, float("nan")], "b": float("inf")})
+    {'a': [1.0, None], 'b': None}
+    """
+    if isinstance(x, dict):
+        return {k: json_safe(v) for k, v in x.items()}
+    if isinstance(x, list | tuple):
+        return [json_safe(v) for v in x]
+    if isinstance(x, float) and not math.isfinite(x):
+        return None
+    return x
+
+
+def finite_or_none(x: float) -> float | None:
+    """``x`` as a float, or None where it is NaN or infinite (a missing result, never a number).
+
+    >>> finite_or_none(2), finite_or_none(float("nan"))
+    (2.0, None)
+    """
+    x = float(x)
+    return x if math.isfinite(x) else None

@@ -1,0 +1,316 @@
+"""Every flag sentence, in every branch, reads as one whole sentence with its numbers.
+
+Each case builds the situation that raises the flag and holds its full reason to a pattern: the
+words a technician reads, with the numbers left as patterns. No sentence may carry "None", "nan"
+or two clauses glued together (the stray-gap sentence once read "at or below the main gap cannot
+break down at all").
+"""
+
+import dataclasses
+import re
+
+import pytest
+from scipy import constants
+from strikeline.model.bench import Bench, BenchCurve, Chamber, OperatingPoint, StrayGap, Supply
+from strikeline.model.forecast import forecast
+from strikeline.profiles.loader import find_cathode, find_gas, load_bench
+
+N = r"-?[\d.]+(?:e[+-]?\d+)?"  # a number as the sentences print them
+ARGON, COPPER = find_gas("Ar"), find_cathode("Cu")
+
+
+def _reason(f, code: str) -> str:
+    found = [x.reason for x in f.flags if x.code == code]
+    assert len(found) == 1, (code, [x.code for x in f.flags])
+    return found[0]
+
+
+def _bench(**kw) -> Bench:
+    return dataclasses.replace(Bench("t", ARGON, COPPER, gap=0.03), **kw)
+
+
+def _point(p, V=None, d=0.03, T=293.0):
+    return OperatingPoint(p, d, V, T)
+
+
+SUPPLY = Supply(1200.0, 0.06, 15e3)
+FAR_STRAY = (StrayGap("back path", 0.2),)  # long: breaks down where the 30 mm main gap cannot
+
+
+def _curve(pd_low, pd_high):
+    return BenchCurve(
+        9.0,
+        135.0,
+        0.07,
+        0.1,
+        1.0,
+        0.001,
+        ((1e-4, 0, 0), (0, 1e-4, 0), (0, 0, 0)),
+        5.0,
+        8,
+        pd_low,
+        pd_high,
+        "argon",
+        "copper",
+        "2026-11-30",
+    )
+
+
+CASES = [
+    # (case id, bench, point, code, pattern of the whole reason)
+    (
+        "no_breakdown",
+        _bench(),
+        _point(5.0),
+        "no_breakdown",
+        rf"pd {N} Torr cm is at or left of the asymptote {N} Torr cm: no voltage breaks this gap down; "
+        rf"raise the pressure above {N} Pa",
+    ),
+    (
+        "E/p outside range",
+        _bench(),
+        _point(1e5, d=0.01),
+        "outside_fitted_range",
+        rf"E/p at breakdown {N} V/\(cm Torr\) is outside the {N}-{N} V/\(cm Torr\) the A, B pair was fitted over: "
+        r"breakdown voltage extrapolated",
+    ),
+    (
+        "air law blended",
+        _bench(gas=find_gas("air"), gap=0.0015),
+        _point(constants.atm / 10, d=0.0015),
+        "uniform_field_law",
+        rf"delta d = {N} cm: the empirical uniform-field law for air is used \(blended with Paschen\)",
+    ),
+    (
+        "air law alone",
+        _bench(gas=find_gas("air"), gap=0.01),
+        _point(constants.atm, d=0.01),
+        "uniform_field_law",
+        rf"delta d = {N} cm: the empirical uniform-field law for air is used \(constant A, B over-predict here\)",
+    ),
+    (
+        "air law beyond its range",
+        _bench(gas=find_gas("air"), gap=0.5),
+        _point(constants.atm, d=0.5),
+        "outside_fitted_range",
+        rf"delta d = {N} cm is beyond the {N} cm the uniform-field law is used to: breakdown voltage extrapolated",
+    ),
+    (
+        "bench curve",
+        _bench(curve=_curve(0.3, 3.0)),
+        _point(20.0),
+        "bench_curve",
+        rf"using this bench's curve \(fitted 2026-11-30 to 8 strikes, rms {N} V\) in place of the textbook constants",
+    ),
+    (
+        "outside bench curve",
+        _bench(curve=_curve(1.0, 2.0)),
+        _point(200.0),
+        "outside_fitted_range",
+        rf"pd {N} Pa m is outside the {N}-{N} Pa m the bench curve was fitted over: extrapolated; record strikes here",
+    ),
+    (
+        "strikes",
+        _bench(),
+        _point(20.0, 1200.0),
+        "strikes",
+        rf"{N} V is {N} V \(\+{N}%\) above the {N} V breakdown voltage, clear of its uncertainty band",
+    ),
+    (
+        "below breakdown",
+        _bench(),
+        _point(20.0, 50.0),
+        "below_breakdown",
+        rf"{N} V is {N} V short of the {N} V breakdown voltage, below its whole uncertainty band: "
+        r"the gap will not strike",
+    ),
+    (
+        "marginal",
+        _bench(),
+        _point(20.0, 150.0),
+        "marginal",
+        rf"{N} V against a {N} V breakdown voltage \((no )?strike expected, margin [+-]{N} V\) sits inside the model's "
+        rf"uncertainty band {N}-{N} V: it may or may not strike",
+    ),
+    (
+        "spark by alpha d",
+        _bench(gas=find_gas("N2"), gap=0.01),
+        _point(6666.0, 6000.0, d=0.01),
+        "spark",
+        rf"alpha d = {N} at {N} V reaches the Raether-Meek threshold {N} \(gain ~1e8\): a streamer forms and the gap "
+        r"sparks rather than glows",
+    ),
+    (
+        "spark by regime",
+        _bench(gas=find_gas("air"), gap=0.01),
+        _point(constants.atm, 35e3, d=0.01),
+        "spark",
+        rf"(pd {N} Torr cm is in the streamer regime: breakdown here is a spark channel that a low-impedance supply "
+        rf"turns into an arc, not a glow|alpha d = {N} at {N} V reaches the Raether-Meek threshold {N} \(gain ~1e8\): "
+        r"a streamer forms and the gap sparks rather than glows)",
+    ),
+    (
+        "streamer near",
+        _bench(gas=find_gas("N2"), gap=0.01),
+        _point(6666.0, 4400.0, d=0.01),
+        "streamer_near",
+        rf"alpha d = {N} is within 25 % of the Raether-Meek threshold {N}: avalanches approach streamer size",
+    ),
+    (
+        "no current limit",
+        _bench(supply=Supply(1200.0, None, 0.0)),
+        _point(20.0),
+        "unlimited_current",
+        r"no ballast resistor and no current limit: nothing holds the current after ignition, so the glow runs away "
+        r"into an arc",
+    ),
+    # krypton on molybdenum: no normal-glow current density known, so nothing holds the density down
+    (
+        "glow to arc",
+        _bench(gas=find_gas("Kr"), cathode=find_cathode("Mo"), supply=Supply(1200.0, None, 100.0), cathode_area=1e-6),
+        _point(20.0),
+        "glow_to_arc",
+        rf"{N} (m)?A at {N} V: {N} A/cm\^2 on the cathode approaches the 1 A/cm\^2 where glows turn into arcs",
+    ),
+    (
+        "dark discharge",
+        _bench(supply=Supply(1200.0, None, 1e10)),
+        _point(20.0),
+        "dark_discharge",
+        rf"{N} mA at {N} V: below 10 uA the discharge stays dark \(Townsend\); lower the ballast to reach a glow",
+    ),
+    (
+        "glow regime",
+        _bench(supply=SUPPLY, cathode_area=19.6e-4),
+        _point(20.0),
+        "glow_regime",
+        rf"{N} mA at {N} V: (normal|abnormal) glow, glow covers {N}% of the cathode, limited by the ballast",
+    ),
+    (
+        "arc sustainable",
+        _bench(supply=Supply(700.0, 1.5, 20.0)),
+        _point(20.0),
+        "arc_sustainable",
+        rf"the supply can drive {N} A into a short, above the ~1 A a cathode spot needs: an arc, once started, "
+        r"can keep burning; use arc detection or a faster current limit",
+    ),
+    (
+        "stray first, main none, supply reaches",
+        _bench(stray_gaps=FAR_STRAY),
+        _point(5.0, 1200.0),
+        "stray_gap_first",
+        rf"back path \(200 mm\) breaks down at {N} V, while the main gap cannot break down at any voltage, and the "
+        rf"supply's {N} V reaches it: the discharge would start there",
+    ),
+    (
+        "stray first, main none, supply short",
+        _bench(stray_gaps=FAR_STRAY),
+        _point(5.0, 50.0),
+        "stray_gap_first",
+        rf"back path \(200 mm\) breaks down at {N} V, while the main gap cannot break down at any voltage; "
+        rf"the supply's {N} V does not reach it yet, but a higher voltage would strike there first",
+    ),
+    (
+        "stray first, main none, no voltage",
+        _bench(stray_gaps=FAR_STRAY),
+        _point(5.0),
+        "stray_gap_first",
+        rf"back path \(200 mm\) breaks down at {N} V, while the main gap cannot break down at any voltage: a discharge "
+        r"would start there",
+    ),
+    (
+        "stray first, main strikes",
+        _bench(stray_gaps=(StrayGap("back path", 0.044),)),
+        _point(20.0, 1200.0),
+        "stray_gap_first",
+        rf"back path \(44 mm\) breaks down at {N} V, at or below the main gap's {N} V, and the supply's {N} V reaches "
+        r"it: the discharge would start there",
+    ),
+    (
+        "stray first, supply short",
+        _bench(stray_gaps=(StrayGap("back path", 0.044),)),
+        _point(20.0, 100.0),
+        "stray_gap_first",
+        rf"back path \(44 mm\) breaks down at {N} V, at or below the main gap's {N} V; the supply's {N} V does not "
+        r"reach it yet, but a higher voltage would strike there first",
+    ),
+    (
+        "stray may strike",
+        _bench(stray_gaps=(StrayGap("wide clamp", 0.035),)),
+        _point(500.0, 5000.0),
+        "stray_gap_may_strike",
+        rf"wide clamp \(35 mm\) breaks down at {N} V, within the {N} V across it while the glow runs",
+    ),
+    (
+        "strays hold",
+        _bench(stray_gaps=(StrayGap("dark-space shield", 0.002),)),
+        _point(20.0, 1200.0),
+        "stray_gaps_hold",
+        r"no stray gap \(dark-space shield\) breaks down below the main gap or the running voltage",
+    ),
+    (
+        "left branch, chamber",
+        _bench(chamber=Chamber(0.15, 0.3)),
+        _point(20.0),
+        "left_branch_longer_paths",
+        rf"the main gap \(30 mm\) is left of the minimum: longer paths at cathode potential, up to {N} mm, break "
+        rf"down at lower voltage \(down to {N} V\); the chamber \(150 mm radius\) holds such paths; "
+        r"shield the back and sides of the cathode",
+    ),
+    (
+        "left branch, no chamber",
+        _bench(),
+        _point(20.0),
+        "left_branch_longer_paths",
+        rf"the main gap \(30 mm\) is left of the minimum: longer paths at cathode potential, up to {N} mm, break "
+        rf"down at lower voltage \(down to {N} V\); shield the back and sides of the cathode",
+    ),
+    (
+        "afterglow carries over",
+        load_bench("demo").bench,
+        _point(20.0),
+        "afterglow_carries_over",
+        rf"decay time {N} us against a {N} us off-time: {N}% of the charge is left, so each pulse re-ignites easily",
+    ),
+    (
+        "afterglow lost",
+        dataclasses.replace(load_bench("demo").bench, supply=Supply(1200.0, 0.06, 15e3, "pulsed", 100.0, 5e-3)),
+        _point(20.0),
+        "afterglow_lost",
+        rf"decay time {N} us against a {N} us off-time: only {N}% of the charge is left, so each pulse must break the "
+        r"gap down afresh \(expect ignition delay and jitter\)",
+    ),
+    (
+        "crossed field",
+        load_bench("demo-magnetron").bench,
+        _point(0.5, d=0.06),
+        "crossed_field",
+        rf"magnetised cathode \(30 mT\): omega_ce/nu_m = {N}, effective pressure {N} Pa for 0.5 Pa; an approximation "
+        r"that treats the whole gap as if it sat in the cathode's field",
+    ),
+]
+
+
+@pytest.mark.parametrize(("bench", "point", "code", "pattern"), [c[1:] for c in CASES], ids=[c[0] for c in CASES])
+def test_flag_sentence(bench, point, code, pattern):
+    reason = _reason(forecast(point, bench), code)
+    assert re.fullmatch(pattern, reason), reason
+    assert not re.search(r"\b(None|nan|inf)\b", reason)
+
+
+def test_every_flag_code_has_a_wording_case():
+    # A new flag must come with its sentence checked here.
+    codes = {c[3] for c in CASES}
+    assert codes == {
+        "no_breakdown", "outside_fitted_range", "uniform_field_law", "bench_curve", "strikes", "below_breakdown",
+        "marginal", "spark", "streamer_near", "unlimited_current", "glow_to_arc", "dark_discharge", "glow_regime",
+        "arc_sustainable", "stray_gap_first", "stray_gap_may_strike", "stray_gaps_hold", "left_branch_longer_paths",
+        "afterglow_carries_over", "afterglow_lost", "crossed_field",
+    }  # fmt: skip
+
+
+@pytest.mark.parametrize(("bench", "point"), [c[1:3] for c in CASES], ids=[c[0] for c in CASES])
+def test_one_flag_per_code(bench, point):
+    # The session tracks flags by code (raised/cleared); two flags under one code would hide one.
+    codes = [x.code for x in forecast(point, bench).flags]
+    assert len(codes) == len(set(codes)), codes
