@@ -16,9 +16,23 @@ from .text import UNIT_SYSTEMS, amps, pd_text
 if TYPE_CHECKING:
     from ..model.forecast import Forecast
 
-__all__ = ["LEVEL_WORD", "channel_line", "flag_lines", "readout_lines", "sparkline"]
+__all__ = [
+    "LEVEL_STYLE",
+    "LEVEL_WORD",
+    "NUDGE_FIELDS",
+    "STYLE",
+    "channel_line",
+    "flag_lines",
+    "pd_display",
+    "readout_lines",
+    "sparkline",
+]
 
 LEVEL_WORD = {"ok": "ok", "watch": "WATCH", "danger": "DANGER"}
+LEVEL_STYLE = {"DANGER": "bold reverse red", "WATCH": "bold yellow", "ok": "green"}
+"""Rich style of each flag level word (the word itself carries the meaning without colour)."""
+STYLE = {"bad": "bold reverse", "warn": "bold", "good": "", "": ""}
+"""Rich style of the readouts' style words."""
 _STATUS_WORD = {
     "ok": "LIVE",
     "stale": "STALE",
@@ -130,7 +144,11 @@ _BARS = "▁▂▃▄▅▆▇█"
 
 
 def sparkline(values: list[float | None], width: int, log: bool = True) -> str:
-    """A one-line history (missing values as spaces), newest on the right."""
+    """A one-line history (missing values as spaces), newest on the right, on a log scale.
+
+    >>> sparkline([1.0, 10.0, None, 100.0], 10)
+    '▁▅ █'
+    """
     import math
 
     vals = values[-width:]

@@ -22,7 +22,11 @@ _LEVEL_MARK = {"ok": "ok    ", "watch": "WATCH ", "danger": "DANGER"}
 
 
 def pd_text(pd_si: float | None, system: str) -> str:
-    """A pd value (Pa m) in the unit system's pd unit, e.g. '0.42 Torr cm'."""
+    """A pd value (Pa m) in the unit system's pd unit.
+
+    >>> pd_text(1.3332236842105263, "Torr"), pd_text(0.6, "SI"), pd_text(None, "SI")
+    ('1 Torr cm', '0.6 Pa m', 'none')
+    """
     if pd_si is None:
         return "none"
     pu, lu = UNIT_SYSTEMS[system][2]
@@ -33,7 +37,11 @@ def pd_text(pd_si: float | None, system: str) -> str:
 
 
 def amps(i: float) -> str:
-    """A current as mA below 1 A, as A above."""
+    """A current as mA below 1 A, as A above.
+
+    >>> amps(0.0213), amps(1.5)
+    ('21.3 mA', '1.5 A')
+    """
     return f"{i:.3g} A" if i >= 1 else f"{i * 1e3:.3g} mA"
 
 

@@ -1,0 +1,113 @@
+"""The calibration screen: fit this bench's curve to the session's strike marks; accept, save or discard."""
+
+from __future__ import annotations
+
+from dataclasses import replace
+from typing import TYPE_CHECKING
+
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Vertical
+from textual.screen import ModalScreen
+from textual.widgets import Static
+
+if TYPE_CHECKING:
+    from .calibrate import Calibration
+    from .screen import StrikelineApp
+
+__all__ = ["CalibrationScreen"]
+
+
+class CalibrationScreen(ModalScreen[None]):
+    """Fit this bench's curve to the session's strike marks; accept, save or discard."""
+
+    BINDINGS = [
+        Binding("1", "free('A,B')", "fit A,B"),
+        Binding("2", "free('B,gamma')", "fit B,gamma"),
+        Binding("3", "free('gamma')", "fit gamma"),
+        Binding("a", "accept", "accept"),
+        Binding("w", "write", "save to bench file"),
+        Binding("escape,k", "dismiss", "discard"),
+    ]
+
+    def __init__(self, main: StrikelineApp):
+        super().__init__()
+        self.main = main
+        self.free = "A,B"
+        self.cal: Calibration | None = None
+
+    def compose(self) -> ComposeResult:
+        with Vertical(id="calib-box"):
+            yield Static(id="calib-text")
+            yield Static(id="calib-plot")
+            yield Static(
+                "1 fit A,B  2 fit B,gamma  3 fit gamma  a accept  w save to bench  Esc discard", id="calib-hint"
+            )
+
+    def on_mount(self) -> None:
+        self.refit()
+        self.call_after_refresh(self.draw)  # the picture needs its laid-out size
+
+    def refit(self) -> None:
+        from ..model.calibration import FitRefused
+        from .calibrate import calibrate, calibration_summary, parse_free
+
+        s = self.main.session
+        marks = s.strikes
+        text = self.query_one("#calib-text", Static)
+        pts = [(m.pressure, m.gap, m.voltage, m.gas_temperature) for m in marks]
+        labels = [f"mark {i + 1}" for i in range(len(marks))]
+        try:
+            self.cal = calibrate(replace(s.bench, curve=None), pts, labels, parse_free(self.free))
+        except FitRefused as e:
+            self.cal = None
+            text.update(Text(f"{len(marks)} strike marks this session (s marks one).\nfit {self.free}: refused: {e}"))
+            return
+        text.update(Text(calibration_summary(self.cal), no_wrap=True, overflow="ellipsis"))
+        self.draw()
+
+    def draw(self) -> None:
+        from .curve_panel import calibration_curve
+        from .plot import curve_picture
+
+        if self.cal is None:
+            return
+        plot = self.query_one("#calib-plot", Static)
+        w, h = plot.size.width or 70, plot.size.height or 10
+        inputs = calibration_curve(self.cal, self.main.session.bench, w, h, colour=not self.main.no_color)
+        plot.update(Text.from_ansi(curve_picture(inputs)))
+
+    def action_free(self, free: str) -> None:
+        self.free = free
+        self.refit()
+
+    def action_accept(self) -> None:
+        if self.cal is None:
+            self.main.note("nothing to accept: the fit was refused", error=True)
+            return
+        self.main.use_curve(self.cal.result.curve)
+        self.dismiss()
+
+    def action_write(self) -> None:
+        from ..profiles.loader import ProfileError, save_curve
+
+        if self.cal is None:
+            self.main.note("nothing to save: the fit was refused", error=True)
+            return
+        path = self.main.session.profile.path
+        if path is None:
+            self.main.note(
+                "this bench is built in: copy it to a file to save a curve (accepted for this session)", error=True
+            )
+            self.main.use_curve(self.cal.result.curve)
+            self.dismiss()
+            return
+        try:
+            save_curve(path, self.cal.result.curve)
+        except ProfileError as e:
+            self.main.note(str(e), error=True)
+            return
+        self.main.use_curve(self.cal.result.curve)
+        self.main.note(f"bench curve saved into {path}")
+        self.dismiss()

@@ -1,0 +1,135 @@
+"""What the curve panels show, worked out as plain numbers (no Textual): testable on their own.
+
+:func:`live_curve` gives the live panel's picture inputs and a key that changes only when the
+picture would (so an unchanged picture is never redrawn); :func:`calibration_curve` gives the
+calibration screen's. numpy and the model load with the first picture, not with the screen.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import replace
+from typing import TYPE_CHECKING
+
+from .plot import CurveInputs
+from .readouts import pd_display
+from .text import UNIT_SYSTEMS
+
+if TYPE_CHECKING:
+    from ..model.bench import Bench
+    from .calibrate import Calibration
+    from .session import View
+
+__all__ = ["calibration_curve", "live_curve"]
+
+
+def live_curve(
+    bench: Bench,
+    values: dict[str, float | None],
+    view: View | None,
+    units: str,
+    width: int,
+    height: int,
+    colour: bool,
+) -> tuple[tuple, CurveInputs] | None:
+    """(key, picture inputs) for the live panel of ``width`` x ``height`` cells, or None when the
+    panel is too small to draw. ``values`` are the session's gap, voltage and gas temperature.
+
+    The key holds what the picture depends on: gas, cathode, gamma, supply voltage, units, size,
+    the operating point rounded to a character cell, gas temperature and the fitted curve.
+    """
+    import numpy as np
+
+    from ..model import paschen
+    from ..model.forecast import curve
+
+    if width < 20 or height < 6:
+        return None
+    c = bench.gas.constants
+    gamma = bench.yield_().value
+    f = view.forecast if view is not None else None
+    T = values["temperature"]
+    scale = c.reference_temperature / T
+    ratio = 1.0
+    if f is not None and f.effective_pressure is not None:
+        # Magnetised: in 5 % steps, so gauge noise does not redraw an unchanged picture.
+        ratio = 10 ** (round(math.log10(f.effective_pressure / f.pressure) * 46) / 46)
+    k = scale * ratio  # reduced pd = actual pd * k
+    pd0 = paschen.no_breakdown_pd(c.A, gamma)
+    pd_min, v_min = paschen.minimum(c.A, c.B, gamma)
+    lo = pd0 * 1.01
+    hi = pd_min * 300
+    if f is not None:  # the operating point is always on the picture, even left of the asymptote
+        lo = min(lo, f.reduced_pd / 2)
+        hi = max(hi, f.reduced_pd * 3)
+    rpd = np.geomspace(lo, hi, max(width * 2, 60))
+    vb, _w = curve(rpd, replace(bench, curve=None))  # the textbook line; a fit is drawn over it
+    to_x = pd_display(1.0, units)
+    point = None
+    if f is not None:
+        point = (f.pd * to_x, math.nan if f.breakdown_voltage is None else f.breakdown_voltage)
+    cols = max(width - 8, 10)
+    bucket = (
+        None
+        if point is None
+        else (
+            round(math.log10(point[0]) * cols / math.log10(hi / lo)),
+            None if math.isnan(point[1]) else round(math.log10(point[1]) * height / 4),
+        )
+    )
+    key = (bench.gas.key, bench.cathode.key, gamma, values["voltage"], units, width, height, bucket, T, ratio)
+    key += (bench.curve,)
+    inputs = CurveInputs(
+        pd=tuple(rpd / k * to_x),
+        vb=tuple(vb),
+        point=point,
+        minimum=(pd_min / k * to_x, v_min),
+        supply=values["voltage"],
+        fitted=_fitted(bench, rpd, k, to_x),
+        pd_unit=" ".join(UNIT_SYSTEMS[units][2]),
+        width=width,
+        height=height,
+        colour=colour,
+    )
+    return key, inputs
+
+
+def _fitted(bench: Bench, rpd, k: float, to_x: float):
+    """(pd, V_b, low, high) of the bench's fitted curve and its band, if it fits this gas and cathode."""
+    from ..model.calibration import prediction_band
+
+    cv = bench.curve
+    if cv is None or cv.gas != bench.gas.key or cv.cathode != bench.cathode.key:
+        return None
+    v, lo, hi = prediction_band(cv, rpd)
+    return tuple(rpd / k * to_x), tuple(v), tuple(lo), tuple(hi)
+
+
+def calibration_curve(cal: Calibration, bench: Bench, width: int, height: int, colour: bool) -> CurveInputs:
+    """The calibration screen's picture: the textbook curve, the fit with its band, and the marks,
+    over reduced pd from a third of the lowest mark to three times the highest."""
+    import numpy as np
+
+    from ..model import paschen
+    from ..model.calibration import prediction_band
+    from ..model.forecast import curve
+
+    c = bench.gas.constants
+    pd_min, v_min = paschen.minimum(c.A, c.B, bench.yield_().value)
+    lo, hi = min(cal.pd) / 3, max(cal.pd) * 3
+    rpd = np.geomspace(lo, hi, 120)
+    vb, _w = curve(rpd, replace(bench, curve=None))
+    fv, flo, fhi = prediction_band(cal.result.curve, rpd)
+    return CurveInputs(
+        pd=tuple(rpd),
+        vb=tuple(vb),
+        point=None,
+        minimum=(pd_min, v_min),
+        supply=None,
+        fitted=(tuple(rpd), tuple(fv), tuple(flo), tuple(fhi)),
+        marks=tuple(zip(cal.pd, cal.voltage, strict=True)),
+        pd_unit="Pa m (reduced)",
+        width=max(width, 30),
+        height=max(height, 6),
+        colour=colour,
+    )

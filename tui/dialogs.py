@@ -1,0 +1,73 @@
+"""The live screen's modal dialogs: the high-voltage cautions, the help and the flags in full."""
+
+from __future__ import annotations
+
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Vertical, VerticalScroll
+from textual.screen import ModalScreen
+from textual.widgets import Static
+
+from .readouts import LEVEL_STYLE
+
+__all__ = ["CAUTION", "CautionScreen", "FlagsScreen", "HelpScreen"]
+
+CAUTION = (
+    "HIGH VOLTAGE CAN KILL. strikeline is advisory: it reads instruments and controls nothing, "
+    "and a forecast of 'no strike' does not make a chamber safe to touch. Keep the interlocks "
+    "working. Switch off, discharge and ground the supply and cathode before opening the chamber. "
+    "Near live parts work one-handed and never alone. Local electrical codes, your lab's safety "
+    "officer and licensed practice come first."
+)
+
+
+class CautionScreen(ModalScreen[None]):
+    """The high-voltage cautions, shown on first start and on request."""
+
+    BINDINGS = [Binding("enter,escape,space", "dismiss", "continue")]
+
+    def compose(self) -> ComposeResult:
+        with Vertical(id="caution-box"):
+            yield Static("strikeline: before you start", id="caution-title")
+            yield Static(CAUTION, id="caution-text")
+            yield Static("Press Enter to continue.", id="caution-hint")
+
+
+class HelpScreen(ModalScreen[None]):
+    """Cautions first (they must always be whole), then every key; scrolls on small terminals."""
+
+    BINDINGS = [Binding("escape,q,question_mark,enter", "dismiss", "close")]
+
+    def __init__(self, keys: list[tuple[str, str]]):
+        super().__init__()
+        self.keys = keys
+
+    def compose(self) -> ComposeResult:
+        lines = Text()
+        lines.append(CAUTION + "\n\n", style="bold")
+        lines.append("keys (values take units, e.g. 20 Pa, 30 mm, 600 V)\n")
+        for k, what in self.keys:
+            lines.append(f"  {k:<11} {what}\n")
+        with VerticalScroll(id="help-box"):
+            yield Static(lines)
+            yield Static("Escape closes.", id="caution-hint")
+
+
+class FlagsScreen(ModalScreen[None]):
+    """Every flag of the forecast with its full reason, worst first."""
+
+    BINDINGS = [Binding("escape,q,d,enter", "dismiss", "close")]
+
+    def __init__(self, rows: list[tuple[str, str, str]]):
+        super().__init__()
+        self.rows = rows
+
+    def compose(self) -> ComposeResult:
+        t = Text()
+        for level, code, reason in self.rows or [("ok", "none", "no flags")]:
+            t.append(f"{level:<6} {code}\n", style=LEVEL_STYLE.get(level, ""))
+            t.append(f"       {reason}\n")
+        with Vertical(id="help-box"):
+            yield Static(t)
+            yield Static("Escape closes.", id="caution-hint")

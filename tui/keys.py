@@ -1,0 +1,198 @@
+"""What each key does on the live screen: the bindings, their help text and their actions.
+
+:class:`KeyActions` is mixed into :class:`~strikeline.tui.screen.StrikelineApp`; the actions
+change the Session (typed values, nudges, gas, marks) and ask the screen to look again.
+"""
+
+from __future__ import annotations
+
+from typing import TYPE_CHECKING
+
+from textual.binding import Binding
+
+from .readouts import NUDGE_FIELDS, flag_lines
+from .session import StrikeMark
+from .text import UNIT_SYSTEMS
+
+if TYPE_CHECKING:
+    from textual.widgets import Input
+
+__all__ = ["BINDINGS", "COARSE", "FINE", "HELP_KEYS", "KEY_HINTS", "KeyActions"]
+
+FINE, COARSE = 1.02, 1.25
+"""Factors of one nudge with up/down and with PgUp/PgDn."""
+
+BINDINGS = [
+    Binding("p", "enter('pressure')", "pressure"),
+    Binding("g", "enter('gap')", "gap"),
+    Binding("v", "enter('voltage')", "volts"),
+    Binding("t", "enter('temperature')", "temp", show=False),
+    Binding("G", "enter('gas')", "gas", show=False),
+    Binding("C", "enter('cathode')", "cathode", show=False),
+    Binding("left", "select(-1)", "choose", show=False),
+    Binding("right", "select(1)", "choose", show=False),
+    Binding("up", f"nudge({FINE})", "nudge", show=False),
+    Binding("down", f"nudge({1 / FINE})", "nudge", show=False),
+    Binding("pageup", f"nudge({COARSE})", "coarse", show=False),
+    Binding("pagedown", f"nudge({1 / COARSE})", "coarse", show=False),
+    Binding("f", "follow", "gauge", show=False),
+    Binding("u", "units", "units"),
+    Binding("space", "pause", "pause"),
+    Binding("s", "strike", "strike!"),
+    Binding("d", "flags", "flags"),
+    Binding("k", "calibrate", "calib"),
+    Binding("question_mark", "help", "help"),
+    Binding("escape", "cancel", "cancel", show=False),
+    Binding("q", "quit", "quit"),
+]
+
+KEY_HINTS = "p g v type  arrows nudge  u units  s strike  d flags  k calib  ? help  q quit"
+"""The bottom line: the keys a technician needs most (every key is in the help screen)."""
+
+HELP_KEYS = [
+    ("p g v t", "type pressure, gap, supply voltage, gas temperature"),
+    ("G  C", "switch gas, switch cathode"),
+    ("left right", "choose which value the arrows nudge (marked >)"),
+    ("up down", f"nudge it by {(FINE - 1):.0%}"),
+    ("PgUp PgDn", f"nudge it by {(COARSE - 1):.0%}"),
+    ("f", "follow the gauge again after typing a pressure"),
+    ("u", "units: SI (Pa, mm) / mbar / Torr"),
+    ("space", "pause / resume the live view (readings are still logged)"),
+    ("s", "mark a strike: you saw ignition at this point"),
+    ("d", "all flags with their full reasons"),
+    ("k", "calibration: fit this bench's curve to its strike marks"),
+    ("escape", "cancel typing"),
+    ("?", "this help"),
+    ("q", "quit"),
+]
+
+PROMPTS = {
+    "pressure": "pressure (true), e.g. 20 Pa, 150 mTorr, 0.2 mbar",
+    "gap": "gap, e.g. 30 mm, 3 cm",
+    "voltage": "supply voltage, e.g. 600 V, 1.2 kV",
+    "temperature": "gas temperature, e.g. 293 K, 20 C",
+    "gas": "gas, e.g. argon, Ar, N2, air, He",
+    "cathode": "cathode, e.g. Cu, Al, stainless, Ti, Mo, W",
+}
+
+
+class KeyActions:
+    """The live screen's key actions (mixed into the App; they use its Session and drawing)."""
+
+    def _entry(self) -> Input:
+        """The typing line, mounted the first time it is needed (its import and widget are not on
+        the first frame's path)."""
+        from textual.widgets import Input
+
+        found = self.query("#entry")
+        if found:
+            return found.first(Input)
+        entry = Input(id="entry")
+        self.mount(entry, before=self.query_one("#message"))
+        return entry
+
+    def action_enter(self, field: str) -> None:
+        self.entry_field = field
+        entry = self._entry()
+        entry.value = ""
+        entry.placeholder = PROMPTS[field]
+        entry.display = True
+        entry.focus()
+        self.note(f"type the {field} and press Enter (Escape cancels)")
+
+    def on_input_submitted(self, event) -> None:
+        if event.input.id != "entry":
+            return
+        field = self.entry_field
+        text = event.value.strip()
+        self.action_cancel(quiet=True)
+        if field is None or not text:
+            return
+        if field == "gas":
+            err = self.session.set_gas(text)
+        elif field == "cathode":
+            err = self.session.set_cathode(text)
+        else:
+            err = self.session.set_value(field, text)
+        if err:
+            self.note(f"{err} (the old {field} is kept)", error=True)
+        else:
+            self.note(f"{field} set from {text!r}")
+            self.plot_stale = True
+        self.refresh_view()
+
+    def action_cancel(self, quiet: bool = False) -> None:
+        found = self.query("#entry")
+        if not found:
+            return
+        entry = found.first()
+        if entry.display:
+            entry.display = False
+            self.entry_field = None
+            self.set_focus(None)
+            if not quiet:
+                self.note("typing cancelled")
+
+    def action_select(self, step: int) -> None:
+        i = NUDGE_FIELDS.index(self.selected)
+        self.selected = NUDGE_FIELDS[(i + step) % len(NUDGE_FIELDS)]
+        self.refresh_view()
+
+    def action_nudge(self, factor: float) -> None:
+        if self.selected == "voltage" and self.session.values["voltage"] is None:
+            self.note("no supply voltage to nudge: type one with v", error=True)
+            return
+        self.session.nudge(self.selected, factor)
+        self.plot_stale = True
+        self.refresh_view()
+
+    def action_follow(self) -> None:
+        if self.session.follow_gauge():
+            self.note("pressure follows the gauge again")
+        else:
+            self.note("no pressure gauge on this bench: pressure stays typed", error=True)
+        self.refresh_view()
+
+    def action_units(self) -> None:
+        systems = list(UNIT_SYSTEMS)
+        self.units = systems[(systems.index(self.units) + 1) % len(systems)]
+        self.plot_stale = True
+        self.refresh_view()
+        self.sample_history()
+
+    def action_pause(self) -> None:
+        self.paused = not self.paused
+        self.note("paused: the view is frozen, readings are still logged" if self.paused else "live again")
+        self.refresh_view()
+
+    def action_strike(self) -> None:
+        mark = self.session.mark_strike()
+        if isinstance(mark, StrikeMark):
+            from ..model.units import format_value
+
+            where = format_value(mark.pressure, "pressure", UNIT_SYSTEMS[self.units][0])
+            text = f"strike marked: {where}, gap {mark.gap * 1e3:.3g} mm, {mark.voltage:.0f} V"
+            self.record_event(text)
+            self.note(f"{text} ({len(self.session.strikes)} this session)")
+        else:
+            self.note(mark, error=True)
+
+    def action_flags(self) -> None:
+        from .dialogs import FlagsScreen
+
+        v = self.view_
+        self.push_screen(FlagsScreen(flag_lines(None if v is None else v.forecast)))
+
+    def action_help(self) -> None:
+        from .dialogs import HelpScreen
+
+        self.push_screen(HelpScreen(HELP_KEYS))
+
+    def action_calibrate(self) -> None:
+        from .calibration_screen import CalibrationScreen
+
+        self.push_screen(CalibrationScreen(self))
+
+    async def action_quit(self) -> None:
+        self.leave()
+        self.exit()
