@@ -275,7 +275,31 @@ def test_sim_ports_follow_the_bench_gas(tmp_path):
     bench = tmp_path / "he.toml"
     bench.write_text('[bench]\ngas = "He"\ncathode = "Cu"\ngap = "30 mm"\npressure = "50 Pa"\n')
     from strikeline.profiles.loader import load_bench
+    from strikeline.tui.verbs.instruments import sim_ports
 
-    sim = cli._sim_ports(load_bench(bench))
+    sim = sim_ports(load_bench(bench))
     assert "gauge_factor=0.8" in sim.ports[0].url and "setpoint=50" in sim.ports[0].url
     assert sim.gauges["chamber"].factor == pytest.approx(0.8)
+
+
+def test_an_option_named_for_its_unit_takes_a_bare_number(tmp_path, capsys):
+    # --seconds carries its unit in its name: "1" is 1 s; "0.02 min" is read as written.
+    from strikeline.tui.verbs.parser import quantity
+
+    read = quantity("time", bare_unit="s")
+    assert read("30") == 30.0 and read("2 min") == 120.0 and read("8 h") == 8 * 3600.0
+    assert cli.main(["record", "--bench", "demo", "--seconds", "1", "--log", str(tmp_path / "a.jsonl")]) == 0
+    assert "for 1 s" in capsys.readouterr().err
+    code, out, err = run(capsys, "record", "--bench", "demo", "--seconds", "30 parsecs")
+    assert code == 2 and "unknown unit 'parsecs'" in err and err.count("\n") == 1
+
+
+def test_every_help_example_is_accepted(capsys):
+    # The examples a verb's help gives must parse: "8 h" once was refused as a unit.
+    from strikeline.tui.verbs.parser import quantity
+
+    with pytest.raises(SystemExit):
+        cli.main(["record", "--help"])
+    text = capsys.readouterr().out
+    assert "'8 h'" in text
+    assert quantity("time", bare_unit="s")("8 h") == 28800.0

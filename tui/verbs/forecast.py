@@ -1,0 +1,208 @@
+"""The forecast verbs: ``strike`` (one operating point), ``curve`` (the breakdown curve as CSV), ``gases``."""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+from dataclasses import replace
+
+from ...model import units
+from ...model.units import QuantityError
+from .parser import UsageError, add_verb, quantity
+
+__all__ = ["add_curve", "add_gases", "add_strike", "bench_for"]
+
+UNIT_CHOICES = ("SI", "mbar", "Torr")
+
+
+def _common_point(s: argparse.ArgumentParser) -> None:
+    s.add_argument("--bench", metavar="FILE", help="bench profile (.toml), or 'demo' / 'demo-magnetron'")
+    s.add_argument("--gas", help="gas name or symbol, e.g. argon, Ar, N2, air (default: the bench's)")
+    s.add_argument("--cathode", help="cathode metal, e.g. Cu, Al, stainless (default: the bench's)")
+    s.add_argument("--gamma", type=float, help="secondary-electron yield to use instead of the cathode data")
+    s.add_argument(
+        "--temperature", type=quantity("temperature"), metavar="T", help="gas temperature, e.g. '300 K' or '20 C'"
+    )
+
+
+def add_strike(sub) -> None:
+    s = add_verb(sub, "strike", "forecast one operating point", "Forecast one operating point.")
+    _common_point(s)
+    s.add_argument(
+        "--pressure", type=quantity("pressure"), metavar="P", help="true gas pressure, e.g. '0.5 Pa', '20 mTorr'"
+    )
+    s.add_argument(
+        "--gap", type=quantity("length"), metavar="D", help="electrode gap, e.g. 40mm (default: the bench's)"
+    )
+    s.add_argument(
+        "--voltage",
+        type=quantity("voltage"),
+        metavar="V",
+        help="applied voltage, e.g. 600V (default: the bench supply's)",
+    )
+    s.add_argument("--units", choices=UNIT_CHOICES, default="SI", help="units of the text output")
+    s.add_argument("--json", action="store_true", help="print the forecast as JSON (SI units)")
+    s.set_defaults(run=cmd_strike)
+
+
+def add_curve(sub) -> None:
+    c = add_verb(
+        sub,
+        "curve",
+        "the breakdown curve as CSV",
+        "Print the breakdown curve as CSV. With --gap, --from/--to are pressures; without it they are pd "
+        "values such as '0.1 Torr cm'. A magnetised bench is swept in pressure at its gap (the crossed-field "
+        "effective pressure depends on p), and its reduced_pd column includes that effective pressure. "
+        "Default: two decades either side of the minimum.",
+    )
+    _common_point(c)
+    c.add_argument("--gap", type=quantity("length"), metavar="D", help="fix the gap and sweep pressure")
+    c.add_argument("--from", dest="start", metavar="X", help="start of the sweep (pd, or pressure with --gap)")
+    c.add_argument("--to", dest="stop", metavar="X", help="end of the sweep")
+    c.add_argument("--points", type=int, default=200, help="number of points, log-spaced (default 200)")
+    c.set_defaults(run=cmd_curve)
+
+
+def add_gases(sub) -> None:
+    g = add_verb(sub, "gases", "gas and cathode data with sources", "List gas and cathode data with sources.")
+    g.add_argument("--json", action="store_true", help="print as JSON (SI units)")
+    g.set_defaults(run=cmd_gases)
+
+
+def bench_for(args: argparse.Namespace, *, need_gap: bool):
+    """The bench the verb works on: a profile, or one built from --gas/--cathode."""
+    from ...model.bench import Bench
+    from ...profiles.loader import find_cathode, find_gas, load_bench
+
+    if args.bench is not None:
+        bench = load_bench(args.bench).bench
+        if args.gas is not None:
+            bench = replace(bench, gas=find_gas(args.gas), curve=None)
+        if args.cathode is not None:
+            bench = replace(bench, cathode=find_cathode(args.cathode), gamma=None, curve=None)
+    else:
+        if args.gas is None or args.cathode is None:
+            missing = " and ".join(o for o, v in (("--gas", args.gas), ("--cathode", args.cathode)) if v is None)
+            raise UsageError(f"strikeline {args.verb}: {missing} needed (or --bench FILE / --bench demo)")
+        gap = getattr(args, "gap", None)
+        if need_gap and gap is None:
+            raise UsageError(f"strikeline {args.verb}: --gap needed without --bench, e.g. --gap 40mm")
+        bench = Bench(name="command line", gas=find_gas(args.gas), cathode=find_cathode(args.cathode), gap=gap or 1.0)
+    gamma = getattr(args, "gamma", None)  # verbs without the option (fit) simply have none
+    if gamma is not None:
+        if not 0 < gamma <= 1:
+            raise UsageError(
+                f"strikeline {args.verb}: --gamma {gamma!r}: give a yield above 0 and at most 1, e.g. 0.07"
+            )
+        bench = replace(bench, gamma=gamma)
+    temperature = getattr(args, "temperature", None)
+    if temperature is not None:
+        if not 20 <= temperature <= 3000:
+            raise UsageError(f"strikeline {args.verb}: --temperature {temperature:g} K: give 20 K to 3000 K")
+        bench = replace(bench, gas_temperature=temperature)
+    return bench
+
+
+def cmd_strike(args: argparse.Namespace) -> int:
+    from ...model.bench import OperatingPoint
+    from ...model.forecast import forecast
+    from ..text import forecast_text
+
+    bench = bench_for(args, need_gap=True)
+    pressure = args.pressure if args.pressure is not None else bench.pressure
+    if pressure is None:
+        raise UsageError("strikeline strike: --pressure needed, e.g. --pressure '0.5 Pa'")
+    gap = args.gap if args.gap is not None else bench.gap
+    point = OperatingPoint(pressure, gap, args.voltage, bench.gas_temperature)
+    f = forecast(point, bench)
+    if args.json:
+        print(json.dumps(f.to_json(), indent=2))
+    else:
+        print(forecast_text(f, args.units))
+    return 0
+
+
+def cmd_curve(args: argparse.Namespace) -> int:
+    import numpy as np
+
+    from ...model import paschen
+    from ...model.forecast import with_bench_curve
+
+    bench, fitted = with_bench_curve(bench_for(args, need_gap=False))
+    if args.points < 2 or args.points > 1_000_000:
+        raise UsageError(f"strikeline curve: --points {args.points}: give 2 to 1000000")
+    c = bench.gas.constants
+    gamma = bench.yield_().value
+    scale = c.reference_temperature / bench.gas_temperature
+    pd_min, _ = paschen.minimum(c.A, c.B, gamma)
+    gap = args.gap  # a pd sweep unless --gap is given, even with a bench...
+    if gap is None and bench.magnetic_field is not None:
+        gap = bench.gap  # ...but a magnetised cathode's effective pressure needs p itself
+    what = "pressure" if gap is not None else "pd"
+
+    def read(text: str | None, default: float, option: str) -> float:
+        if text is None:
+            return default
+        try:
+            if gap is not None:
+                return units.parse(text, "pressure", name=option)
+            return units.parse_pd(text, name=option)
+        except QuantityError as e:
+            hint = "" if gap is not None else " (without --gap the sweep is in pd; add --gap to sweep pressure)"
+            raise QuantityError(f"{e}{hint}") from None
+
+    # Defaults span two decades either side of the minimum, in actual (not reduced) units.
+    lo_default = pd_min / scale / 100
+    hi_default = pd_min / scale * 100
+    if gap is not None:
+        lo_default, hi_default = lo_default / gap, hi_default / gap
+    lo = read(args.start, lo_default, "--from")
+    hi = read(args.stop, hi_default, "--to")
+    if not lo < hi:
+        raise UsageError(
+            f"strikeline curve: --from must be below --to (got {lo:g} and {hi:g} {'Pa' if gap else 'Pa m'})"
+        )
+    from ...model.forecast import curve, effective_pressure, law_name
+
+    xs = np.geomspace(lo, hi, args.points)
+    pd = xs * gap if gap is not None else xs
+    rpd = pd * scale
+    if bench.magnetic_field is not None:
+        p_eff, _hall = effective_pressure(xs, bench.gas_temperature, bench)
+        rpd = p_eff * gap * scale
+    vb, w = curve(rpd, bench)
+    br = paschen.branch(rpd, c.A, gamma)
+    out = sys.stdout
+    cols = (["pressure_Pa", "gap_m"] if what == "pressure" else []) + [
+        "pd_Pa_m",
+        "reduced_pd_Pa_m",
+        "breakdown_V",
+        "branch",
+        "law",
+        "constants",
+    ]
+    source = "bench-curve" if fitted is not None else "textbook"
+    out.write(",".join(cols) + "\n")
+    for i in range(len(xs)):
+        v = "" if not np.isfinite(vb[i]) else f"{vb[i]:.10g}"
+        row = ([f"{xs[i]:.10g}", f"{gap:.10g}"] if what == "pressure" else []) + [
+            f"{pd[i]:.10g}",
+            f"{rpd[i]:.10g}",
+            v,
+            str(br[i]),
+            law_name(w[i]),
+            source,
+        ]
+        out.write(",".join(row) + "\n")
+    return 0
+
+
+def cmd_gases(args: argparse.Namespace) -> int:
+    from ..text import gases_json, gases_text
+
+    if args.json:
+        print(json.dumps(gases_json(), indent=2))
+    else:
+        print(gases_text())
+    return 0

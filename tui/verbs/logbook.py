@@ -1,0 +1,102 @@
+"""The logbook and calibration verbs: ``log`` (summarise a logbook) and ``fit`` (this bench's curve)."""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+
+from .forecast import bench_for
+from .parser import UsageError, add_verb
+
+__all__ = ["add_fit", "add_log"]
+
+
+def add_fit(sub) -> None:
+    ft = add_verb(
+        sub,
+        "fit",
+        "fit this bench's breakdown curve to recorded strikes",
+        "Fit Paschen's law to strikes recorded on this bench (CSV with pressure, gap and voltage columns; "
+        "units in the header or the cells). A and gamma only appear together in the law, so fit A,B "
+        "(default) or B,gamma. --save writes the curve into a bench profile; strike and the screen then use it.",
+    )
+    ft.add_argument("points", metavar="POINTS.csv", help="strike points (strikeline log --strikes writes one)")
+    ft.add_argument("--bench", metavar="FILE", help="take gas, cathode and gas temperature from this bench")
+    ft.add_argument("--gas", help="gas name or symbol (default: the bench's)")
+    ft.add_argument("--cathode", help="cathode metal (default: the bench's)")
+    ft.add_argument("--free", default="A,B", help="which of A, B, gamma to fit (default A,B)")
+    ft.add_argument("--save", metavar="BENCH", help="write the fitted curve into this bench profile")
+    ft.add_argument("--json", action="store_true", help="print the fit as JSON (SI units)")
+    ft.set_defaults(run=cmd_fit)
+
+
+def add_log(sub) -> None:
+    lg = add_verb(
+        sub,
+        "log",
+        "summarise a logbook",
+        "Summarise a logbook: span, readings per channel, gaps and faults, strike marks, flag changes.",
+    )
+    lg.add_argument("path", metavar="PATH", help="a logbook (.jsonl)")
+    lg.add_argument("--strikes", metavar="CSV", help="also write the strike marks as a calibration CSV")
+    lg.add_argument("--json", action="store_true", help="print the summary as JSON")
+    lg.set_defaults(run=cmd_log)
+
+
+def cmd_fit(args: argparse.Namespace) -> int:
+    from ...model.calibration import FitRefused
+    from ...profiles.loader import save_curve
+    from ...profiles.strikes import read_strike_csv
+    from ..calibrate import calibrate, calibration_json, calibration_text, parse_free
+
+    bench = bench_for(args, need_gap=False)
+    try:
+        free = parse_free(args.free)
+        table = read_strike_csv(args.points)
+    except ValueError as e:
+        raise UsageError(f"strikeline fit: {e}") from None
+    if not table.points:
+        raise UsageError(f"strikeline fit: {args.points!r}: no usable rows ({'; '.join(table.problems) or 'empty'})")
+    pts = [(p.pressure, p.gap, p.voltage, p.temperature) for p in table.points]
+    labels = [f"line {p.line}" for p in table.points]
+    try:
+        cal = calibrate(bench, pts, labels, free)
+    except FitRefused as e:
+        raise UsageError(f"strikeline fit: refused: {e}") from None
+    print(
+        json.dumps(calibration_json(cal, table.problems), indent=2)
+        if args.json
+        else calibration_text(cal, table.problems)
+    )
+    if args.save:
+        save_curve(args.save, cal.result.curve)
+        print(f"strikeline fit: bench curve saved into {args.save}", file=sys.stderr)
+    return 0
+
+
+def cmd_log(args: argparse.Namespace) -> int:
+    import csv
+
+    from ...drivers.logbook import read_logbook
+    from ..logsummary import STRIKE_COLUMNS, strike_rows, summarise
+    from ..text import log_summary_text
+
+    try:
+        log = read_logbook(args.path)
+    except FileNotFoundError:
+        raise UsageError(f"strikeline log: {args.path!r}: no such file; give a logbook (.jsonl)") from None
+    except (OSError, UnicodeDecodeError) as e:
+        raise UsageError(f"strikeline log: {args.path!r}: cannot be read ({e})") from None
+    if not log.records:
+        raise UsageError(f"strikeline log: {args.path!r}: no logbook records in it")
+    summary = summarise(log)
+    if args.strikes:
+        rows = strike_rows(log)
+        with open(args.strikes, "w", newline="", encoding="utf-8") as f:
+            w = csv.DictWriter(f, fieldnames=STRIKE_COLUMNS)
+            w.writeheader()
+            w.writerows(rows)
+        print(f"strikeline log: {len(rows)} strike marks written to {args.strikes}", file=sys.stderr)
+    print(json.dumps(summary, indent=2) if args.json else log_summary_text(summary))
+    return 0
