@@ -1,0 +1,48 @@
+"""Figures of the breakdown curve: a 1e6-point curve against one np.log pass and against root finding."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+from timing import best_of
+
+FIGURES = ("curve_1e6_ms", "log_1e6_ms", "curve_vs_log", "curve_vs_rootfind")
+BUDGETS = {"curve_vs_log": ("<=", 4.0), "curve_vs_rootfind": (">=", 100.0)}
+
+
+def measure(quick: bool = False) -> dict[str, float]:
+    """Time of an n-point breakdown curve against one np.log and against root finding."""
+    from scipy.optimize import brentq
+    from strikeline.model import paschen, townsend
+    from strikeline.profiles.loader import find_gas
+
+    n, repeats, sample_n = (100_000, 3, 200) if quick else (1_000_000, 15, 2000)
+    c = find_gas("argon").constants
+    gamma = 0.07
+    pd0 = paschen.no_breakdown_pd(c.A, gamma)
+    pd = np.geomspace(pd0 * 1.001, pd0 * 1e4, n)
+    t_log = best_of(lambda: np.log(pd), repeats)
+    t_curve = best_of(lambda: paschen.breakdown_voltage(pd, c.A, c.B, gamma), repeats)
+
+    # The same curve by solving the Townsend criterion alpha(V/d) d = ln(1 + 1/gamma) for V at
+    # each point with scipy's brentq (d = 1 m, so p = pd), on a sample of the points.
+    K = math.log1p(1 / gamma)
+    sample = pd[:: max(n // sample_n, 1)]
+
+    def rootfind():
+        out = np.empty_like(sample)
+        for i, p in enumerate(sample):
+            out[i] = brentq(lambda V, p=p: float(townsend.alpha(V, p, c.A, c.B)) - K, 1e-3, 1e9, xtol=1e-9, rtol=1e-12)
+        return out
+
+    t_root = best_of(rootfind, 1 if quick else 3) * (n / len(sample))
+    check = paschen.breakdown_voltage(sample, c.A, c.B, gamma)
+    assert np.allclose(rootfind(), check, rtol=1e-8), "root finding disagrees with the closed form"
+    scale = 1e6 / n  # quoted per million points
+    return {
+        "curve_1e6_ms": t_curve * 1e3 * scale,
+        "log_1e6_ms": t_log * 1e3 * scale,
+        "curve_vs_log": t_curve / t_log,
+        "curve_vs_rootfind": t_root / t_curve,
+    }
