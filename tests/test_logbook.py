@@ -6,7 +6,6 @@ import os
 import signal
 import subprocess
 import sys
-import threading
 import time
 
 import pytest
@@ -173,7 +172,9 @@ def test_kill_9_of_a_real_recording_loses_at_most_the_last_second(tmp_path):
     )
     try:
         assert wait_for(lambda: path.exists() and path.read_text().count('"kind":"reading"') > 60, timeout=30)
-        threading.Event().wait(1.5)
+        first = path.read_text().count('"kind":"reading"')
+        # another 1.5 s of readings (3 channels at 10 Hz), so the once-a-second sync has run since
+        assert wait_for(lambda: path.read_text().count('"kind":"reading"') >= first + 45, timeout=30)
         killed_at = time.time()
         os.kill(proc.pid, signal.SIGKILL)
         proc.wait(10)
