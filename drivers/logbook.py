@@ -22,17 +22,29 @@ import datetime as _dt
 import json
 import math
 import os
+import stat
 import threading
 import time
 from collections import deque
-from collections.abc import Callable
+from collections.abc import Callable, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
 from .reading import Reading, Status
+from .records import record_problem
 
-__all__ = ["FORMAT", "LogRead", "Logbook", "ReplaySource", "iso_utc", "read_logbook", "reading_from_record"]
+__all__ = [
+    "FORMAT",
+    "LogRead",
+    "Logbook",
+    "LogbookRefused",
+    "ReplaySource",
+    "iso_utc",
+    "read_logbook",
+    "reading_from_record",
+    "refuse_foreign",
+]
 
 FORMAT = "strikeline-logbook/1"
 
@@ -50,6 +62,40 @@ def _clean(x: Any) -> Any:
     if isinstance(x, list | tuple):
         return [_clean(v) for v in x]
     return x
+
+
+class LogbookRefused(ValueError):
+    """This path cannot hold a logbook (the message is one line saying why)."""
+
+
+def refuse_foreign(path: Path) -> None:
+    """Raise :class:`LogbookRefused` unless ``path`` is absent, empty, or already a strikeline logbook:
+    appending to someone's CSV, a folder or a device would damage it."""
+    if str(path) in ("", "."):
+        raise LogbookRefused("logbook path is empty; give a file name, e.g. shift.jsonl")
+    try:
+        st = path.stat()
+    except FileNotFoundError:
+        return
+    except OSError as e:
+        raise LogbookRefused(f"logbook {path}: cannot be checked ({e.strerror or e})") from None
+    if stat.S_ISDIR(st.st_mode):
+        raise LogbookRefused(f"logbook {path}: is a folder; give a file name inside it")
+    if not stat.S_ISREG(st.st_mode):
+        raise LogbookRefused(f"logbook {path}: is not a regular file; give a file name")
+    if st.st_size == 0:
+        return
+    try:
+        with open(path, encoding="utf-8", errors="replace") as f:
+            first = f.readline(4096)
+        header = json.loads(first)
+        ok = isinstance(header, dict) and str(header.get("format", "")).startswith("strikeline-logbook/")
+    except (OSError, ValueError):
+        ok = False
+    if not ok:
+        raise LogbookRefused(
+            f"logbook {path}: exists and is not a strikeline logbook; it is left untouched: give a new file name"
+        )
 
 
 class Logbook:
@@ -88,14 +134,25 @@ class Logbook:
         self._syncer: threading.Thread | None = None
         self._last_retry = -math.inf
 
-    def open(self, **header: Any) -> None:
-        """Open (append) and write the session header; start the once-a-second sync."""
+    def open(self, *, strict: bool = False, **header: Any) -> None:
+        """Open (append) and write the session header; start the once-a-second sync.
+
+        A file that exists and is not a strikeline logbook is never written to: :class:`LogbookRefused`.
+        With ``strict`` a logbook that cannot be written now (no folder, read-only, full device)
+        raises :class:`LogbookRefused` at once, before any work starts; otherwise the failure is
+        reported through ``on_error`` and records wait in the backlog.
+        """
+        refuse_foreign(self.path)
         try:
             self.path.parent.mkdir(parents=True, exist_ok=True)
-        except OSError:
-            pass  # reported by the first write
+        except OSError as e:
+            if strict:
+                raise LogbookRefused(f"logbook {self.path}: its folder cannot be made ({e.strerror or e})") from None
         self._try_open()
         self.write("session", format=FORMAT, **header)
+        if strict and self.error is not None:
+            self.close()
+            raise LogbookRefused(self.error.split("; records kept")[0])
         self._syncer = threading.Thread(target=self._sync_loop, name="logbook-sync", daemon=True)
         self._syncer.start()
 
@@ -190,33 +247,47 @@ class Logbook:
 
 @dataclass
 class LogRead:
-    """A logbook as read back."""
+    """A logbook as read back: the records that passed :func:`record_problem`, and what did not."""
 
     records: list[dict[str, Any]] = field(default_factory=list)
-    bad_lines: list[int] = field(default_factory=list)
-    """Line numbers (1-based) that were not records, torn tail excluded."""
+    skipped: list[tuple[int, str]] = field(default_factory=list)
+    """(line number, reason) of every line that is not a readable record, torn tail excluded."""
     torn_tail: bool = False
     """The last line was cut short (a crash mid-write) and was skipped."""
 
+    @property
+    def bad_lines(self) -> list[int]:
+        """The line numbers (1-based) that were skipped."""
+        return [line for line, _why in self.skipped]
 
-def read_logbook(path: str | os.PathLike[str]) -> LogRead:
-    """Read a logbook, tolerating a torn last line and counting any bad ones."""
+
+def _no_constants(name: str) -> Any:
+    raise ValueError(f"{name} is not a number JSON allows")
+
+
+def read_logbook(path: str | os.PathLike[str], ranges: Mapping[str, tuple[float, float]] | None = None) -> LogRead:
+    """Read a logbook: every line is checked (:func:`~strikeline.drivers.records.record_problem`,
+    with the caller's physical ``ranges`` of numeric fields); a line that is not a readable record is
+    skipped and reported by number with its reason, and a torn last line (a crash mid-write) is
+    tolerated. Raises OSError when the file cannot be read at all."""
     out = LogRead()
-    with open(path, encoding="utf-8", errors="replace") as f:
-        lines = f.read().split("\n")
+    with open(path, encoding="utf-8", errors="replace", newline="") as f:
+        lines = f.read().split("\n")  # JSON lines end in LF (a CR before it is tolerated), nothing else
     last = len(lines)
     for i, line in enumerate(lines, 1):
         if not line.strip():
             continue
         try:
-            rec = json.loads(line)
-            if not isinstance(rec, dict) or "kind" not in rec:
-                raise ValueError("not a record")
-        except ValueError:
+            rec = json.loads(line.removesuffix("\r"), parse_constant=_no_constants)
+        except ValueError as e:
             if i == last:  # no newline after it: cut short by a crash
                 out.torn_tail = True
             else:
-                out.bad_lines.append(i)
+                out.skipped.append((i, f"not JSON ({str(e).split(':')[0]})"))
+            continue
+        problem = record_problem(rec, ranges)
+        if problem is not None:
+            out.skipped.append((i, problem))
             continue
         out.records.append(rec)
     return out

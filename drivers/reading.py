@@ -44,6 +44,12 @@ class Reading:
     """"serial", "simulated", "replay" or "manual"."""
 
     @property
+    def answered(self) -> bool:
+        """Whether the instrument answered meaningfully (a value, or its own range or sensor status),
+        as opposed to a lost port, a garbled answer or an aged one."""
+        return self.status in (Status.OK, Status.OVER_RANGE, Status.UNDER_RANGE, Status.SENSOR_ERROR)
+
+    @property
     def usable(self) -> bool:
         """Whether a forecast may be built on it."""
         return self.status is Status.OK and self.value is not None

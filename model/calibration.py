@@ -78,7 +78,16 @@ def fit_curve(
     level: float = 0.95,
 ) -> FitResult:
     """Fit the free ones of A (1/(Pa m)), B (V/(Pa m)), gamma to strikes at ``pd`` (Pa m, reduced)
-    and ``voltage`` (V); the others stay at the values given. Raises :class:`FitRefused`."""
+    and ``voltage`` (V); the others stay at the values given. Raises :class:`FitRefused`.
+
+    Trial steps of the optimiser may overflow (gamma toward 0, A toward infinity); those numbers
+    are judged below (a degenerate or non-finite fit is refused), so numpy's warnings about them
+    are not passed on."""
+    with np.errstate(all="ignore"):
+        return _fit(pd, voltage, A, B, gamma, free, gas, cathode, fitted_on, level)
+
+
+def _fit(pd, voltage, A, B, gamma, free, gas, cathode, fitted_on, level) -> FitResult:
     from scipy import optimize, stats
 
     pd = np.asarray(pd, dtype=float)
@@ -150,6 +159,11 @@ def fit_curve(
             f"the points cannot separate {', '.join(free)} (the fit is degenerate: condition number "
             f"{cond:.2g}); fit fewer of them, or add strikes spread over both sides of the minimum"
         )
+    if not (np.all(np.isfinite(res.x)) and np.all(np.isfinite(JTJ))):
+        raise FitRefused(
+            f"the fit of {', '.join(free)} ran off to values that are not finite numbers: the strikes do not "
+            "follow Paschen's law here; check them, or fit fewer parameters"
+        )
     cov_free = np.linalg.inv(JTJ) * s2
     cov = np.zeros((3, 3))
     cov[np.ix_(idx, idx)] = cov_free
@@ -198,9 +212,10 @@ def prediction_band(curve: BenchCurve, pd: ArrayLike) -> tuple[NDArray, NDArray,
     """
     pd = np.atleast_1d(np.asarray(pd, dtype=float))
     theta = np.log([curve.A, curve.B, curve.gamma])
-    v = _vb(theta, pd)
-    g = _ln_vb_grad(theta, pd)
-    C = np.asarray(curve.covariance)
-    var = np.einsum("ni,ij,nj->n", g, C, g) + curve.residual_scale**2
-    half = curve.t_quantile * np.sqrt(var)
-    return v, v * np.exp(-half), v * np.exp(half)
+    with np.errstate(all="ignore"):  # far from the fit the band may run to 0 or inf: drawn, never warned
+        v = _vb(theta, pd)
+        g = _ln_vb_grad(theta, pd)
+        C = np.asarray(curve.covariance)
+        var = np.einsum("ni,ij,nj->n", g, C, g) + curve.residual_scale**2
+        half = curve.t_quantile * np.sqrt(var)
+        return v, v * np.exp(-half), v * np.exp(half)

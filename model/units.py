@@ -78,6 +78,7 @@ _KINDS: dict[str, _Kind] = {
             "mm": _c.milli,
             "um": _c.micro,
             "µm": _c.micro,
+            "nm": _c.nano,
             "in": _c.inch,
         },
         '"40mm", "4 cm", "0.04 m"',
@@ -95,7 +96,7 @@ _KINDS: dict[str, _Kind] = {
         {"ohm": 1.0, "Ω": 1.0, "kohm": _c.kilo, "kΩ": _c.kilo, "Mohm": _c.mega, "MΩ": _c.mega},
         '"10 kohm", "1 Mohm", "470 ohm"',
     ),
-    "temperature": _Kind("temperature", "K", {"K": 1.0}, '"293 K"'),
+    "temperature": _Kind("temperature", "K", {"K": 1.0}, '"293 K", "20 C"'),
     "field": _Kind("field", "T", {"T": 1.0, "mT": _c.milli, "G": 1e-4, "gauss": 1e-4}, '"30 mT", "300 G"'),
     "frequency": _Kind("frequency", "Hz", {"Hz": 1.0, "kHz": _c.kilo, "MHz": _c.mega}, '"20 kHz"'),
     "time": _Kind(
@@ -110,8 +111,9 @@ KINDS: tuple[str, ...] = tuple(_KINDS)
 
 # "<number><optional space><unit>"; the number accepts 1, 1.5, .5, 1e-3, 1.5E+2.
 _QUANTITY = re.compile(
-    r"^\s*(?P<num>[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*(?P<unit>[^\s\d.+-][^\s]*(?:\s+[^\s]+)?)?\s*$"
+    r"^\s*(?P<num>[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*(?P<unit>(?:[^\W\d_]|°)[^\s]*(?:\s+[^\s]+)?)?\s*$"
 )
+"""A number, then optionally a unit that starts with a letter (so "2,5 Pa" is not a number and a unit)."""
 _TEMPERATURE_C = {"C", "°C", "degC"}
 
 
@@ -133,7 +135,8 @@ def _lookup(kind: _Kind, unit: str) -> float | None:
 
 
 def _accepted(kind: _Kind) -> str:
-    return f"a number and one of {', '.join(units_of(kind.name))} (e.g. {kind.example})"
+    names = [*units_of(kind.name), *(["C"] if kind.name == "temperature" else [])]
+    return f"a number and one of {', '.join(names)} (e.g. {kind.example})"
 
 
 def parse(text: str | float | int, kind: str, *, name: str | None = None, allow_zero: bool = False) -> float:

@@ -9,7 +9,7 @@ from __future__ import annotations
 import math
 
 from ..model.bench import BenchCurve, Cathode, Gas
-from .fields import ProfileError, Table
+from .fields import Table
 from .gasdata import find_cathode, find_gas
 
 __all__ = ["curve_section", "curve_toml", "with_curve_section"]
@@ -40,10 +40,7 @@ def curve_section(t: Table | None, gas: Gas, cathode: Cathode) -> BenchCurve | N
     if t is None:
         return None
     t.only(_CURVE_FIELDS)
-    try:
-        fitted_gas, fitted_cathode = find_gas(t.string("gas")), find_cathode(t.string("cathode"))
-    except ProfileError as e:
-        raise ProfileError(f"{t.file}: [curve] {e}") from None
+    fitted_gas, fitted_cathode = t.lookup("gas", find_gas), t.lookup("cathode", find_cathode)
     if fitted_gas.key != gas.key or fitted_cathode.key != cathode.key:
         raise t.fail(
             "gas",
@@ -64,6 +61,9 @@ def curve_section(t: Table | None, gas: Gas, cathode: Cathode) -> BenchCurve | N
     free = t.data.get("free", ["A", "B"])
     if not isinstance(free, list) or not set(free) <= {"A", "B", "gamma"}:
         raise t.fail("free", f"{free!r} is not a list drawn from A, B, gamma")
+    pd_low, pd_high = t.number("pd_low_Pa_m", 1e-9, 1e6), t.number("pd_high_Pa_m", 1e-9, 1e6)
+    if not pd_low < pd_high:
+        raise t.fail("pd_high_Pa_m", f"{pd_high!r} is not above pd_low_Pa_m {pd_low!r}: the fitted range is inverted")
     return BenchCurve(
         A=t.number("A_per_Pa_m", 1e-3, 1e4),
         B=t.number("B_V_per_Pa_m", 1e-1, 1e5),
@@ -74,8 +74,8 @@ def curve_section(t: Table | None, gas: Gas, cathode: Cathode) -> BenchCurve | N
         covariance=tuple(tuple(float(x) for x in r) for r in cov),
         rms_residual=t.number("rms_residual_V", 0, 1e6),
         n_points=int(t.number("n_points", 1, 1e6)),
-        pd_low=t.number("pd_low_Pa_m", 1e-9, 1e6),
-        pd_high=t.number("pd_high_Pa_m", 1e-9, 1e6),
+        pd_low=pd_low,
+        pd_high=pd_high,
         gas=gas.key,
         cathode=cathode.key,
         fitted_on=t.string("fitted_on"),

@@ -8,12 +8,16 @@ from __future__ import annotations
 
 import math
 import tomllib
-from collections.abc import Iterable
-from typing import Any
+from collections.abc import Callable, Iterable
+from typing import Any, TypeVar
 
 from ..model import units
+from ..model.limits import LIMITS, Limit, parse_within
+from ..model.units import QuantityError
 
 __all__ = ["ProfileError", "Table", "example", "name_key", "read_toml"]
+
+T = TypeVar("T")
 
 
 class ProfileError(ValueError):
@@ -89,29 +93,27 @@ class Table:
             raise self.fail(key, f"{v!r} is not [low, high] with {lo:g} <= low < high <= {hi:g}")
         return float(v[0]), float(v[1])
 
-    def quantity(
-        self,
-        key: str,
-        kind: str,
-        lo: float,
-        hi: float,
-        *,
-        required: bool = True,
-        allow_zero: bool = False,
-    ) -> float | None:
+    def quantity(self, key: str, limit: str | Limit, *, required: bool = True) -> float | None:
+        """The quantity ``key`` in SI, inside ``limit`` (a name in :data:`LIMITS`, shared with the
+        command line and the screen, or a :class:`Limit` of this field's own)."""
+        lim = LIMITS[limit] if isinstance(limit, str) else limit
         if key not in self.data:
             if required:
-                raise self.fail(key, f"missing; give {kind} with its unit, e.g. {example(kind, lo, hi)}")
+                raise self.fail(key, f"missing; give {lim.kind} with its unit, e.g. {example(lim)}")
             return None
-        v = self.data[key]
         try:
-            value = units.parse(v, kind, name=key, allow_zero=allow_zero)
-        except units.QuantityError as e:
+            return parse_within(self.data[key], lim, label=key)
+        except QuantityError as e:
             raise ProfileError(f"{self.file}: [{self.where}] {e}") from None
-        if not lo <= value <= hi:
-            si = units.units_of(kind)[0]
-            raise self.fail(key, f"{v!r} is outside the accepted range {lo:g} to {hi:g} {si}")
-        return value
+
+    def lookup(self, key: str, find: Callable[[str], T]) -> T:
+        """The thing named by the text field ``key``, found by ``find`` (a gas or cathode by name);
+        its one-line refusal is prefixed with this file and section, once."""
+        name = self.string(key)
+        try:
+            return find(name)
+        except ProfileError as e:
+            raise ProfileError(f"{self.file}: [{self.where}] {e}") from None
 
     def sub(self, key: str) -> Table | None:
         if key not in self.data:
@@ -119,10 +121,10 @@ class Table:
         return Table(self.file, f"{self.where}.{key}" if self.where else key, self.data[key])
 
 
-def example(kind: str, lo: float, hi: float) -> str:
-    """An example value of ``kind`` inside [lo, hi], with its SI unit, for a "missing" message."""
-    si = units.units_of(kind)[0]
-    return f'"{math.sqrt(lo * hi) if lo > 0 else hi / 10:.3g} {si}"'
+def example(lim: Limit) -> str:
+    """An example value inside ``lim``, with its SI unit, for a "missing" message."""
+    lo = lim.low if lim.low > 0 else lim.high / 1e3
+    return f'"{math.sqrt(lo * lim.high):.3g} {units.units_of(lim.kind)[0]}"'
 
 
 def read_toml(text: str, file: str) -> dict[str, Any]:

@@ -14,6 +14,7 @@ from ..drivers.specs import Analog, ChannelSpec, PortSpec
 from ..model import units
 from ..model.bench import Gas
 from ..model.gauges import GAUGE_KINDS, GaugeCorrection
+from ..model.limits import Limit
 from .fields import ProfileError, Table
 from .gauges import gauge_correction
 
@@ -51,6 +52,10 @@ _CHANNEL_FIELDS = (
     "gauge",
     "gauge_factor",
 )
+_POLL = Limit("time", 1e-3, 3600.0, "a millisecond to an hour")
+_TIMEOUT = Limit("time", 1e-3, 60.0, "a millisecond to a minute")
+_STALE = Limit("time", 1e-3, 3600.0, "a millisecond to an hour")
+_OWN = "the instrument's own range"
 _QUANTITY_KIND = {"pressure": "pressure", "voltage": "voltage", "current": "current"}
 
 
@@ -101,8 +106,8 @@ def port_sections(raw: dict[str, Any], label: str, gas: Gas) -> tuple[tuple[Port
                 parity=parity,
                 stopbits=t.number("stopbits", 1, 2, default=1),
                 terminator=term,
-                poll_interval=t.quantity("poll_interval", "time", 1e-3, 3600.0, required=False) or 0.5,
-                timeout=t.quantity("timeout", "time", 1e-3, 60.0, required=False) or 0.5,
+                poll_interval=t.quantity("poll_interval", _POLL, required=False) or 0.5,
+                timeout=t.quantity("timeout", _TIMEOUT, required=False) or 0.5,
                 lost_after=int(t.number("lost_after", 1, 1000, default=3)),
                 source="simulated" if url.lower().startswith("simbench://") else "serial",
             )
@@ -181,10 +186,12 @@ def _channel(c: Table, mode: str, gas: Gas, encoding: str) -> tuple[ChannelSpec,
         status_map=status_map,
         scale=c.number("scale", -1e12, 1e12, default=1.0),
         offset=c.number("offset", -1e12, 1e12, default=0.0),
-        over_above=c.quantity("over_range_above", kind, 1e-12, 1e12, required=False),
-        under_below=c.quantity("under_range_below", kind, 1e-15, 1e12, required=False),
+        over_above=c.quantity("over_range_above", Limit(kind, 1e-12, 1e12, "the channel's own range"), required=False),
+        under_below=c.quantity(
+            "under_range_below", Limit(kind, 1e-15, 1e12, "the channel's own range"), required=False
+        ),
         analog=analog,
-        stale_after=c.quantity("stale_after", "time", 1e-3, 3600.0, required=False) or 2.0,
+        stale_after=c.quantity("stale_after", _STALE, required=False) or 2.0,
         encoding=encoding,
     )
     return spec, corr

@@ -14,10 +14,13 @@ import re
 from dataclasses import dataclass
 
 from ..model import units
+from ..model.limits import check, parse_within
 
 __all__ = ["StrikePoint", "StrikeTable", "parse_strike_csv", "read_strike_csv"]
 
 _COLUMNS = {"pressure": "pressure", "gap": "length", "voltage": "voltage", "temperature": "temperature"}
+"""Column -> unit kind of its header or cells; each value is then held to the limit of the same name."""
+_LIMIT = {"pressure": "pressure", "gap": "gap", "voltage": "voltage", "temperature": "temperature"}
 _HEADER = re.compile(
     r"^\s*(?:gas_)?(?P<name>pressure|gap|voltage|temperature)\s*(?:[_\s]\s*|\[|\()?\s*(?P<unit>[^\])\s]*)\s*[\])]?\s*$",
     re.I,
@@ -57,7 +60,11 @@ def read_strike_csv(path: str) -> StrikeTable:
 
 
 def parse_strike_csv(text: str, label: str = "points.csv") -> StrikeTable:
-    rows = list(csv.reader(io.StringIO(text)))
+    """The strike points of CSV ``text``; raises ValueError (one line) for a file that cannot be used."""
+    try:
+        rows = list(csv.reader(io.StringIO(text, newline="")))
+    except csv.Error as e:
+        raise ValueError(f"{label}: not CSV ({e})") from None
     start = next(
         (i for i, r in enumerate(rows) if any(c.strip() for c in r) and not r[0].lstrip().startswith("#")), None
     )
@@ -103,14 +110,12 @@ def parse_strike_csv(text: str, label: str = "points.csv") -> StrikeTable:
                 try:
                     x = float(cell)
                 except ValueError:
-                    values[key] = units.parse(cell, _COLUMNS[key], name=key)
+                    values[key] = parse_within(cell, _LIMIT[key], label=key)
                     continue
                 if factor is None and key != "temperature":
                     raise units.QuantityError(f"{key} {cell!r}: needs a unit, in the cell or the header")
                 value = x * (factor or 1.0)  # a bare temperature is taken as kelvin
-                if not value > 0:
-                    raise units.QuantityError(f"{key} {cell!r}: must be above zero")
-                values[key] = value
+                values[key] = check(value, _LIMIT[key], label=key, text=cell)
         except units.QuantityError as e:
             problems.append(f"line {line}: {e}; row skipped")
             continue

@@ -172,7 +172,7 @@ def test_fit_verb_refusals_exit_2(tmp_path, capsys):
     assert cli.main(["fit", str(path), "--gas", "Ar", "--cathode", "Cu", "--free", "A,Q"]) == 2
     assert "'Q' is not one of A, B, gamma" in capsys.readouterr().err
     assert cli.main(["fit", str(path), "--bench", "demo", "--save", "demo"]) == 2
-    assert "built in" in capsys.readouterr().err
+    assert "built-in" in capsys.readouterr().err
 
 
 def test_curve_for_another_gas_is_refused_on_load(tmp_path):

@@ -153,8 +153,8 @@ def test_strike_text_in_torr_units(capsys):
         (["strike", "--gas", "Ar", "--pressure", "1 Pa", "--gap", "1mm"], "--cathode needed"),
         (["strike", "--gas", "Ar", "--cathode", "Cu", "--pressure", "1 Pa"], "--gap needed"),
         (["strike", "--bench", "no-such-bench.toml"], "no such file"),
-        (["strike", "--bench", "demo", "--gamma", "3"], "--gamma 3.0"),
-        (["strike", "--bench", "demo", "--temperature", "5 K"], "--temperature 5 K"),
+        (["strike", "--bench", "demo", "--gamma", "3"], "--gamma: '3' is not a secondary-electron yield"),
+        (["strike", "--bench", "demo", "--temperature", "5 K"], "temperature '5 K': outside 20 to 3000 K"),
         (["strike", "--bogus"], "unrecognized arguments: --bogus"),
         (["frobnicate"], "invalid choice: 'frobnicate'"),
         (["--units", "SI"], "invalid choice: 'SI'"),
@@ -163,7 +163,7 @@ def test_strike_text_in_torr_units(capsys):
             ["curve", "--gas", "Ar", "--cathode", "Cu", "--gap", "1cm", "--from", "10 Pa", "--to", "1 Pa"],
             "--from must be below --to",
         ),
-        (["curve", "--bench", "demo", "--points", "1"], "--points 1"),
+        (["curve", "--bench", "demo", "--points", "1"], "--points: '1' is not a number of points"),
     ],
 )
 def test_bad_input_is_one_line_on_stderr_with_status_2(capsys, argv, needle):
@@ -286,7 +286,7 @@ def test_an_option_named_for_its_unit_takes_a_bare_number(tmp_path, capsys):
     # --seconds carries its unit in its name: "1" is 1 s; "0.02 min" is read as written.
     from strikeline.tui.verbs.parser import quantity
 
-    read = quantity("time", bare_unit="s")
+    read = quantity("duration", bare_unit="s")
     assert read("30") == 30.0 and read("2 min") == 120.0 and read("8 h") == 8 * 3600.0
     assert cli.main(["record", "--bench", "demo", "--seconds", "1", "--log", str(tmp_path / "a.jsonl")]) == 0
     assert "for 1 s" in capsys.readouterr().err
@@ -302,4 +302,4 @@ def test_every_help_example_is_accepted(capsys):
         cli.main(["record", "--help"])
     text = capsys.readouterr().out
     assert "'8 h'" in text
-    assert quantity("time", bare_unit="s")("8 h") == 28800.0
+    assert quantity("duration", bare_unit="s")("8 h") == 28800.0

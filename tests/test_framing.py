@@ -153,7 +153,7 @@ TAGGED = st.tuples(st.just(True), FRAMES.filter(_in_range_ok)) | st.tuples(
 )
 
 
-@given(st.lists(TAGGED, max_size=200))
+@given(st.lists(TAGGED, max_size=60))
 def test_fuzz_floods_mixed_with_garbage(items):
     stream = b"".join(item + b"\r" for _, item in items)
     lines = LineFramer(b"\r").feed(stream)

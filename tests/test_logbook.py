@@ -83,12 +83,13 @@ def test_replay_keeps_its_own_pace():
 
 def test_torn_last_line_is_tolerated(tmp_path):
     path = tmp_path / "torn.jsonl"
-    path.write_text('{"kind":"session","t_unix":1}\n{"kind":"reading","channel":"c"}\n{"kind":"read')
+    reading = '{"kind":"reading","t_unix":1.8e9,"channel":"c","quantity":"pressure","status":"ok"}'
+    path.write_text('{"kind":"session","t_unix":1.8e9}\n' + reading + '\n{"kind":"read')
     log = read_logbook(path)
     assert len(log.records) == 2 and log.torn_tail and log.bad_lines == []
-    path.write_text('{"kind":"session"}\nnot json\n{"kind":"event"}\n')
+    path.write_text('{"kind":"session","t_unix":1.8e9}\nnot json\n{"kind":"event","t_unix":1.8e9,"event":"x"}\n')
     log = read_logbook(path)
-    assert len(log.records) == 2 and log.bad_lines == [2] and not log.torn_tail
+    assert len(log.records) == 2 and log.skipped == [(2, "not JSON (Expecting value)")] and not log.torn_tail
 
 
 class FailingFile:

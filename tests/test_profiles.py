@@ -130,7 +130,7 @@ def _bench(extra: str = "", bench: str = 'gas = "Ar"\ncathode = "Cu"\ngap = "30 
         (_bench(bench='gas = "Ar"\ncathode = "Cu"\ngap = "30 km"'), "unknown unit 'km'"),
         (
             _bench(bench='gas = "Ar"\ncathode = "Cu"\ngap = "30 m"'),
-            "outside the accepted range 1e-06 to 10 m",
+            "outside 1e-06 to 10 m",
         ),
         (_bench(bench='gas = "Arr"\ncathode = "Cu"\ngap = "3 mm"'), "gas 'Arr': unknown"),
         (_bench(bench='gas = "Ar"\ncathode = "Cu"\ngap = "3 mm"\ngama = 0.1'), "gama: unknown field"),

@@ -249,3 +249,63 @@ def test_a_point_left_of_the_asymptote_stays_on_the_curve():
     _key, inputs = live_curve(s.bench, s.values, view, "SI", 60, 20, colour=False)
     assert inputs.point is not None and inputs.pd[0] <= inputs.point[0] <= inputs.pd[-1]
     assert live_curve(s.bench, s.values, view, "SI", 19, 20, colour=False) is None  # too narrow to draw
+
+
+async def test_a_malformed_replayed_logbook_is_said_and_the_screen_goes_on(tmp_path):
+    # The record that once crashed the screen: a strike mark with text where a number belongs.
+    from strikeline.tui.logread import read_log, skipped_text
+
+    path = tmp_path / "bad.jsonl"
+    path.write_text(
+        '{"kind":"session","t_unix":1.8e9,"mono":0,"format":"strikeline-logbook/1"}\n'
+        '{"kind":"strike","t_unix":1.8e9,"mono":0.1,"pressure_Pa":"lots","gap_m":0.03,"voltage_V":400}\n'
+        '{"kind":"reading","t_unix":1.8e9,"mono":0.2,"channel":"chamber","quantity":"pressure",'
+        '"status":"ok","indicated":12.5}\n'
+    )
+    log = read_log(path)
+    note = skipped_text(log)
+    assert note == "skipped 1 line: 2 (strike field 'pressure_Pa' is 'lots', not a number above zero)"
+    app = make_app(load_bench("demo"), replay=log.records, speed=0, show_caution=False, notes=[f"replay: {note}"])
+    async with app.run_test(size=(80, 24)) as pilot:
+        for _ in range(100):
+            await pilot.pause(0.02)
+            if "replay finished" in "\n".join(app.events):
+                break
+        events = "\n".join(app.events)
+        assert "replay: skipped 1 line: 2" in events and "replay finished" in events
+        assert "12.5 Pa" in text_of(app, "readouts")
+
+
+async def test_a_typed_value_out_of_range_is_an_event_and_kept_out():
+    app = make_app(load_bench("demo"), manual=True, log=False, show_caution=False)
+    async with app.run_test(size=(80, 24)) as pilot:
+        before = app.session.values["pressure"]
+        await pilot.press("p", *"1e30 Pa", "enter")
+        await pilot.pause()
+        assert app.session.values["pressure"] == before
+        assert "outside 1e-06 to 1e+06 Pa" in text_of(app, "message")
+        assert any("refused: pressure '1e30 Pa'" in e for e in app.events)
+
+
+async def test_a_gauge_reading_far_out_of_range_is_an_event_and_never_forecast(tmp_path):
+    from dataclasses import replace
+
+    from fakes import PtyInstrument
+
+    dev = PtyInstrument(lambda line: b"P1,OK,1.0E+28\r\n" if line == b"MEAS P1" else b"")  # 1e30 Pa
+    profile = load_bench("demo")
+    port = replace(profile.ports[0], url=dev.path, poll_interval=0.02, channels=profile.ports[0].channels[:1])
+    app = make_app(replace(profile, ports=(port,)), log_path=tmp_path / "l.jsonl", show_caution=False)
+    try:
+        async with app.run_test(size=(100, 30)) as pilot:
+            for _ in range(150):
+                await pilot.pause(0.02)
+                if any("outside" in e for e in app.events):
+                    break
+            events = [e for e in app.events if "chamber:" in e and "outside" in e]
+            assert len(events) == 1 and "1e+30 Pa is outside the 1e-06 to 1e+06 Pa strikeline accepts" in events[0]
+            assert "WITHDRAWN" in text_of(app, "readouts") and "over range" in text_of(app, "readouts")
+    finally:
+        dev.close()
+    logged = [r for r in (tmp_path / "l.jsonl").read_text().splitlines() if '"kind":"reading"' in r]
+    assert logged and all('"status":"over_range"' in r and "1e+30 Pa is outside" in r for r in logged)

@@ -19,7 +19,7 @@ from ..drivers.reading import Reading
 from ..profiles.loader import BenchProfile
 from .dialogs import CAUTION
 from .keys import KEY_HINTS
-from .messages import Fresh, LogbookNote, PortNote, ReplayNote
+from .messages import Fresh, LogbookNote, PortNote, ReplayNote, Skipped
 from .screen import StrikelineApp
 from .session import Session
 
@@ -44,12 +44,16 @@ def make_app(
     clock: Callable[[], float] = time.monotonic,
     start_sources: bool = True,
     units: str = "SI",
+    strict_log: bool = False,
+    notes: list[str] | tuple[str, ...] = (),
 ) -> StrikelineApp:
     """The one way to build the screen, for the command line and the tests alike.
 
     ``replay`` plays logbook records back instead of reading instruments; ``manual``
     reads none (typed values only). ``show_caution`` None shows the high-voltage
-    cautions on the first start for this user only.
+    cautions on the first start for this user only. With ``strict_log`` a logbook that cannot be
+    written raises :class:`~strikeline.drivers.logbook.LogbookRefused` before the screen starts
+    (a later failure is shown on the screen). ``notes`` are shown as the first events.
     """
     logbook = None
     app_ref: list[StrikelineApp] = []
@@ -64,6 +68,7 @@ def make_app(
         path = log_path or new_logbook_path(profile.bench.name, time.time())
         logbook = Logbook(path, on_error=lambda text: post(LogbookNote(text)))
         logbook.open(
+            strict=strict_log,
             bench=profile.label,
             gas=profile.bench.gas.key,
             cathode=profile.bench.cathode.key,
@@ -72,8 +77,10 @@ def make_app(
     session = Session(profile, logbook=logbook, manual=manual or replay is None and not profile.ports, clock=clock)
 
     def on_reading(r: Reading) -> None:
-        session.handle(r)
+        note = session.handle(r)
         post(Fresh(time.perf_counter()))
+        if note is not None:
+            post(Skipped(note))
 
     def on_port(port: str, kind: str, text: str) -> None:
         session.event(port, kind, text)
@@ -113,6 +120,7 @@ def make_app(
         caution_marker=marker,
         clock=clock,
         units=units,
+        notes=tuple(notes),
     )
     app_ref.append(app)
     return app

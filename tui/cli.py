@@ -12,8 +12,10 @@ import logging
 import sys
 from collections.abc import Sequence
 
+from ..drivers.logbook import LogbookRefused
 from ..model.units import QuantityError
 from ..profiles.fields import ProfileError
+from .outputs import OutputError, StdoutGuard, silence_stdout
 from .verbs import forecast, instruments, logbook
 from .verbs.parser import SAFETY, UsageError, build_parser
 
@@ -63,10 +65,13 @@ def _join_negative_values(argv: list[str]) -> list[str]:
 
 
 def main(argv: Sequence[str] | None = None) -> int:
-    """Run the command line; returns the exit status (0 fine, 2 bad input, 1 internal)."""
+    """Run the command line; returns the exit status (0 fine, 2 bad input or output that cannot be
+    written, 1 nothing read or an internal error)."""
     argv = _join_negative_values(list(sys.argv[1:] if argv is None else argv))
     p = parser()
     verb = next((a for a in argv if a in p.verbs), None)
+    if not isinstance(sys.stdout, StdoutGuard):
+        sys.stdout = StdoutGuard(sys.stdout)
     try:
         # With no arguments strikeline opens the screen on the built-in demo bench, so a new
         # user sees the whole job at once (or prints its forecast when not on a terminal).
@@ -75,14 +80,17 @@ def main(argv: Sequence[str] | None = None) -> int:
         args = p.parse_args(argv)
         if args.verb is None:
             raise UsageError("strikeline: name a verb: strike, curve or gases (see strikeline --help)")
-        return args.run(args)
-    except (UsageError, QuantityError, ProfileError) as e:
-        msg = _one_line(str(e))
-        if not msg.startswith("strikeline"):
-            msg = f"strikeline {verb}: {msg}" if verb else f"strikeline: {msg}"
-        print(msg, file=sys.stderr)
+        status = args.run(args)
+        sys.stdout.flush()  # a full device or closed pipe is met here, not at interpreter exit
+        return status
+    except (UsageError, QuantityError, ProfileError, LogbookRefused, OutputError) as e:
+        if isinstance(e, OutputError):
+            silence_stdout()
+        _say(verb, str(e))
         return 2
-    except BrokenPipeError:  # `strikeline curve | head` is fine
+    except BrokenPipeError:  # `strikeline curve | head`: the reader had enough
+        silence_stdout()
+        _say(verb, "the output was closed before the end (broken pipe)")
         return 0
     except KeyboardInterrupt:
         return 130
@@ -108,6 +116,14 @@ def main(argv: Sequence[str] | None = None) -> int:
 
 def _one_line(text: str) -> str:
     return " ".join(text.split())
+
+
+def _say(verb: str | None, text: str) -> None:
+    """One line on stderr, prefixed with the verb."""
+    msg = _one_line(text)
+    if not msg.startswith("strikeline"):
+        msg = f"strikeline {verb}: {msg}" if verb else f"strikeline: {msg}"
+    print(msg, file=sys.stderr)
 
 
 if __name__ == "__main__":

@@ -116,6 +116,7 @@ class KeyActions:
             err = self.session.set_value(field, text)
         if err:
             self.note(f"{err} (the old {field} is kept)", error=True)
+            self.record_event(f"refused: {err}")
         else:
             self.note(f"{field} set from {text!r}")
             self.plot_stale = True

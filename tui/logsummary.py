@@ -60,7 +60,7 @@ def summarise(log: LogRead) -> dict[str, Any]:
         "connections": sum(1 for e in events if e.get("event") == "connected"),
         "strikes": [r for r in recs if r.get("kind") == "strike"],
         "flag_changes": [r for r in recs if r.get("kind") == "flag"],
-        "bad_lines": log.bad_lines,
+        "skipped": [{"line": line, "why": why} for line, why in log.skipped],
         "torn_tail": log.torn_tail,
     }
 

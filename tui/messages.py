@@ -10,7 +10,7 @@ from typing import Any
 
 from textual.message import Message
 
-__all__ = ["Fresh", "LogbookNote", "PortNote", "ReplayNote"]
+__all__ = ["Fresh", "LogbookNote", "PortNote", "ReplayNote", "Skipped"]
 
 
 class Fresh(Message):
@@ -44,5 +44,13 @@ class LogbookNote(Message):
     """The logbook started or stopped failing (text None: writing again)."""
 
     def __init__(self, text: str | None):
+        super().__init__()
+        self.text = text
+
+
+class Skipped(Message):
+    """A reading far outside what strikeline accepts was skipped, or came back inside (the text says)."""
+
+    def __init__(self, text: str):
         super().__init__()
         self.text = text

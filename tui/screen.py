@@ -23,7 +23,7 @@ from textual.widgets import Static
 
 from ..drivers.logbook import iso_utc
 from .keys import BINDINGS, KEY_HINTS, KeyActions
-from .messages import Fresh, LogbookNote, PortNote, ReplayNote
+from .messages import Fresh, LogbookNote, PortNote, ReplayNote, Skipped
 from .plot import LEGEND
 from .readouts import LEVEL_STYLE, STYLE, channel_line, flag_lines, readout_lines, sparkline
 from .session import Session
@@ -61,6 +61,7 @@ class StrikelineApp(KeyActions, App[None]):
         clock: Callable[[], float] = time.monotonic,
         plot_interval: float = 0.5,
         units: str = "SI",
+        notes: tuple[str, ...] = (),
     ):
         super().__init__()
         self.session = session
@@ -84,6 +85,8 @@ class StrikelineApp(KeyActions, App[None]):
         self.history_v: deque[float | None] = deque(maxlen=600)
         self.logbook_trouble: str | None = None
         self.latency_probe: Callable[[float], None] | None = None
+        self.start_notes = notes
+        """Said as the first events (e.g. the lines a replayed logbook skipped)."""
         self.panels: dict[str, Static] = {}
         """The screen's fixed widgets by id, looked up once when mounted."""
         self.plot_stale = True
@@ -116,6 +119,8 @@ class StrikelineApp(KeyActions, App[None]):
         self.panels["plot"].border_subtitle = LEGEND
         about = f" | {self.session.profile.description}" if self.session.profile.description else ""
         self.note(f"{self.mode} on {self.session.profile.label}; '?' for keys and cautions{about}")
+        for text in self.start_notes:
+            self.record_event(text)
         book = self.session.logbook
         if book is not None and book.error is not None:  # it failed before the screen existed
             self.logbook_trouble = book.error
@@ -172,6 +177,9 @@ class StrikelineApp(KeyActions, App[None]):
 
     def on_port_note(self, m: PortNote) -> None:
         self.record_event(f"{m.port}: {m.kind} {m.text}")
+
+    def on_skipped(self, m: Skipped) -> None:
+        self.record_event(m.text)
 
     def on_replay_note(self, m: ReplayNote) -> None:
         rec = m.record

@@ -19,6 +19,7 @@ from ..drivers.reading import Reading, Status
 from ..model import units
 from ..model.bench import OperatingPoint
 from ..model.gauges import correct
+from ..model.limits import LIMITS, parse_within
 from ..profiles.loader import BenchProfile, find_cathode, find_gas, gauge_correction
 
 if TYPE_CHECKING:  # the numeric model loads with the first forecast, not with the screen
@@ -26,15 +27,15 @@ if TYPE_CHECKING:  # the numeric model loads with the first forecast, not with t
 
 __all__ = ["FIELDS", "PressureNow", "Session", "StrikeMark", "View"]
 
-FIELDS = {"pressure": "pressure", "gap": "length", "voltage": "voltage", "temperature": "temperature"}
-"""What the operator may type, and the kind of quantity each is."""
+FIELDS = ("pressure", "gap", "voltage", "temperature")
+"""What the operator may type; each is read inside its physical limit (model/limits.py)."""
 
-_LIMITS = {
-    "pressure": (1e-6, 1e6),
-    "gap": (1e-6, 10.0),
-    "voltage": (1.0, 1e6),
-    "temperature": (20.0, 3000.0),
+_READING_BOUNDS = {
+    "pressure": (LIMITS["pressure"].low, LIMITS["pressure"].high),
+    "voltage": (-LIMITS["voltage"].high, LIMITS["voltage"].high),  # a read-back may be 0 or negative
+    "current": (-LIMITS["current"].high, LIMITS["current"].high),
 }
+"""A reading outside these (SI) is far out of any instrument's range: skipped, and said so once."""
 
 
 @dataclass(frozen=True)
@@ -110,14 +111,19 @@ class Session:
         self.gauges = dict(profile.gauges)
         """Gas correction by channel, for the gas in use (it follows a change of gas)."""
         self.strikes: list[StrikeMark] = []
+        self._out_of_limits: set[str] = set()
         self._flags: dict[str, Flag] = {}
         self._summary: tuple | None = None
         self._summary_at = -float("inf")
 
     # -- inputs -------------------------------------------------------------------
 
-    def handle(self, r: Reading) -> None:
-        """Take one reading from any source and log it."""
+    def handle(self, r: Reading) -> str | None:
+        """Take one reading from any source and log it. A value far outside what strikeline accepts
+        (a wrong scale in the profile, a corrupt replay) is stored and logged as over or under range
+        with the value in its raw text; the return is a line saying so when a channel goes out of
+        those limits or comes back (None otherwise)."""
+        r, note = self._bounded(r)
         self.latest.update(r)
         if self.logbook is not None:
             value, approx = self.corrected(r)
@@ -132,6 +138,26 @@ class Session:
                 source=r.source,
                 raw=r.raw,
             )
+        return note
+
+    def _bounded(self, r: Reading) -> tuple[Reading, str | None]:
+        bounds = _READING_BOUNDS.get(r.quantity)
+        inside = r.value is None or bounds is None or bounds[0] <= r.value <= bounds[1]
+        was_out = r.channel in self._out_of_limits
+        if inside:
+            if was_out and r.value is not None:
+                self._out_of_limits.discard(r.channel)
+                return r, f"{r.channel}: readings back inside what strikeline accepts"
+            return r, None
+        lo, hi = bounds
+        status = Status.OVER_RANGE if r.value > hi else Status.UNDER_RANGE
+        unit = {"pressure": "Pa", "voltage": "V", "current": "A"}[r.quantity]
+        why = f"{r.value:.3g} {unit} is outside the {lo:g} to {hi:g} {unit} strikeline accepts"
+        r = replace(r, value=None, status=status, raw=f"{r.raw} ({why})")
+        if was_out:
+            return r, None
+        self._out_of_limits.add(r.channel)
+        return r, f"{r.channel}: {why}; skipped (check the channel's unit and scale)"
 
     def corrected(self, r: Reading) -> tuple[float | None, bool]:
         corr = self.gauges.get(r.channel)
@@ -146,13 +172,8 @@ class Session:
 
     def set_value(self, name: str, text: str) -> str | None:
         """Set ``name`` from typed ``text``; on bad input keep the old value and return why."""
-        kind = FIELDS[name]
         try:
-            v = units.parse(text, kind, name=name)
-            lo, hi = _LIMITS[name]
-            if not lo <= v <= hi:
-                si = units.units_of(kind)[0]
-                raise units.QuantityError(f"{name} {text!r}: outside {lo:g} to {hi:g} {si}")
+            v = parse_within(text, name)
         except units.QuantityError as e:
             self._entry(name, text, False, str(e))
             return str(e)
@@ -172,8 +193,7 @@ class Session:
         v = self.values.get(name)
         if v is None:
             return
-        lo, hi = _LIMITS[name]
-        self.values[name] = min(max(v * factor, lo), hi)
+        self.values[name] = min(max(v * factor, LIMITS[name].low), LIMITS[name].high)
         self._entry(name, f"x{factor:g}", True, "")
 
     def follow_gauge(self) -> bool:

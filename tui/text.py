@@ -273,7 +273,7 @@ def gases_text() -> str:
 
 def log_summary_text(s: dict[str, Any]) -> str:
     """A logbook summary as ``strikeline log`` prints it."""
-    lines = [f"bench {s['bench']}: {s['records']} records over {s['span_s']:.1f} s"]
+    lines = [f"bench {s['bench'] or '(not named)'}: {s['records']} records over {s['span_s']:.1f} s"]
     if s["start"] is not None:
         lines.append(f"  from {iso_utc(s['start'])} to {iso_utc(s['end'])}")
     lines.append("readings per channel")
@@ -294,6 +294,12 @@ def log_summary_text(s: dict[str, Any]) -> str:
     lines.append(f"flag changes ({len(s['flag_changes'])})")
     for f in s["flag_changes"]:
         lines.append(f"  {f['t'][11:23]}  {f['change']:<7} {f['level']:<6} {f['code']}: {f['reason']}")
-    if s["torn_tail"] or s["bad_lines"]:
-        lines.append(f"note: torn last line skipped: {s['torn_tail']}; unreadable lines: {s['bad_lines'] or 'none'}")
+    if s["skipped"] or s["torn_tail"]:
+        lines.append(f"skipped lines ({len(s['skipped']) + s['torn_tail']}), not records this version can read")
+        for x in s["skipped"][:20]:
+            lines.append(f"  line {x['line']}: {x['why']}")
+        if len(s["skipped"]) > 20:
+            lines.append(f"  and {len(s['skipped']) - 20} more (strikeline log --json lists them all)")
+        if s["torn_tail"]:
+            lines.append("  the last line, cut short (a crash mid-write)")
     return "\n".join(lines)

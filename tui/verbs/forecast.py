@@ -3,13 +3,14 @@
 from __future__ import annotations
 
 import argparse
-import json
 import sys
 from dataclasses import replace
 
 from ...model import units
+from ...model.limits import check, parse_within
 from ...model.units import QuantityError
-from .parser import UsageError, add_verb, quantity
+from ..outputs import print_json
+from .parser import UsageError, add_verb, count, number, quantity
 
 __all__ = ["add_curve", "add_gases", "add_strike", "bench_for"]
 
@@ -20,7 +21,11 @@ def _common_point(s: argparse.ArgumentParser) -> None:
     s.add_argument("--bench", metavar="FILE", help="bench profile (.toml), or 'demo' / 'demo-magnetron'")
     s.add_argument("--gas", help="gas name or symbol, e.g. argon, Ar, N2, air (default: the bench's)")
     s.add_argument("--cathode", help="cathode metal, e.g. Cu, Al, stainless (default: the bench's)")
-    s.add_argument("--gamma", type=float, help="secondary-electron yield to use instead of the cathode data")
+    s.add_argument(
+        "--gamma",
+        type=number(1e-6, 1.0, "a secondary-electron yield"),
+        help="secondary-electron yield to use instead of the cathode data, above 0 and at most 1, e.g. 0.07",
+    )
     s.add_argument(
         "--temperature", type=quantity("temperature"), metavar="T", help="gas temperature, e.g. '300 K' or '20 C'"
     )
@@ -32,9 +37,7 @@ def add_strike(sub) -> None:
     s.add_argument(
         "--pressure", type=quantity("pressure"), metavar="P", help="true gas pressure, e.g. '0.5 Pa', '20 mTorr'"
     )
-    s.add_argument(
-        "--gap", type=quantity("length"), metavar="D", help="electrode gap, e.g. 40mm (default: the bench's)"
-    )
+    s.add_argument("--gap", type=quantity("gap"), metavar="D", help="electrode gap, e.g. 40mm (default: the bench's)")
     s.add_argument(
         "--voltage",
         type=quantity("voltage"),
@@ -57,10 +60,15 @@ def add_curve(sub) -> None:
         "Default: two decades either side of the minimum.",
     )
     _common_point(c)
-    c.add_argument("--gap", type=quantity("length"), metavar="D", help="fix the gap and sweep pressure")
+    c.add_argument("--gap", type=quantity("gap"), metavar="D", help="fix the gap and sweep pressure")
     c.add_argument("--from", dest="start", metavar="X", help="start of the sweep (pd, or pressure with --gap)")
     c.add_argument("--to", dest="stop", metavar="X", help="end of the sweep")
-    c.add_argument("--points", type=int, default=200, help="number of points, log-spaced (default 200)")
+    c.add_argument(
+        "--points",
+        type=count(2, 1_000_000, "a number of points"),
+        default=200,
+        help="number of points, log-spaced (default 200, at most 1000000)",
+    )
     c.set_defaults(run=cmd_curve)
 
 
@@ -91,15 +99,9 @@ def bench_for(args: argparse.Namespace, *, need_gap: bool):
         bench = Bench(name="command line", gas=find_gas(args.gas), cathode=find_cathode(args.cathode), gap=gap or 1.0)
     gamma = getattr(args, "gamma", None)  # verbs without the option (fit) simply have none
     if gamma is not None:
-        if not 0 < gamma <= 1:
-            raise UsageError(
-                f"strikeline {args.verb}: --gamma {gamma!r}: give a yield above 0 and at most 1, e.g. 0.07"
-            )
         bench = replace(bench, gamma=gamma)
     temperature = getattr(args, "temperature", None)
     if temperature is not None:
-        if not 20 <= temperature <= 3000:
-            raise UsageError(f"strikeline {args.verb}: --temperature {temperature:g} K: give 20 K to 3000 K")
         bench = replace(bench, gas_temperature=temperature)
     return bench
 
@@ -117,7 +119,7 @@ def cmd_strike(args: argparse.Namespace) -> int:
     point = OperatingPoint(pressure, gap, args.voltage, bench.gas_temperature)
     f = forecast(point, bench)
     if args.json:
-        print(json.dumps(f.to_json(), indent=2))
+        print_json(f.to_json())
     else:
         print(forecast_text(f, args.units))
     return 0
@@ -130,8 +132,6 @@ def cmd_curve(args: argparse.Namespace) -> int:
     from ...model.forecast import with_bench_curve
 
     bench, fitted = with_bench_curve(bench_for(args, need_gap=False))
-    if args.points < 2 or args.points > 1_000_000:
-        raise UsageError(f"strikeline curve: --points {args.points}: give 2 to 1000000")
     c = bench.gas.constants
     gamma = bench.yield_().value
     scale = c.reference_temperature / bench.gas_temperature
@@ -144,13 +144,13 @@ def cmd_curve(args: argparse.Namespace) -> int:
     def read(text: str | None, default: float, option: str) -> float:
         if text is None:
             return default
+        if gap is not None:
+            return parse_within(text, "pressure", label=option)
         try:
-            if gap is not None:
-                return units.parse(text, "pressure", name=option)
-            return units.parse_pd(text, name=option)
+            pd = units.parse_pd(text, name=option)
         except QuantityError as e:
-            hint = "" if gap is not None else " (without --gap the sweep is in pd; add --gap to sweep pressure)"
-            raise QuantityError(f"{e}{hint}") from None
+            raise QuantityError(f"{e} (without --gap the sweep is in pd; add --gap to sweep pressure)") from None
+        return check(pd, "pd", label=option, text=text)
 
     # Defaults span two decades either side of the minimum, in actual (not reduced) units.
     lo_default = pd_min / scale / 100
@@ -202,7 +202,7 @@ def cmd_gases(args: argparse.Namespace) -> int:
     from ..text import gases_json, gases_text
 
     if args.json:
-        print(json.dumps(gases_json(), indent=2))
+        print_json(gases_json())
     else:
         print(gases_text())
     return 0

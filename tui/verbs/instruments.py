@@ -3,13 +3,13 @@
 from __future__ import annotations
 
 import argparse
-import json
 import sys
 from dataclasses import replace
 from pathlib import Path
 
+from ..outputs import print_json
 from .forecast import UNIT_CHOICES
-from .parser import UsageError, add_verb, quantity
+from .parser import UsageError, add_verb, count, number, quantity
 
 __all__ = ["add_gauge", "add_live", "add_record", "sim_ports"]
 
@@ -27,7 +27,12 @@ def add_live(sub) -> None:
     lv.add_argument("--manual", action="store_true", help="no instruments: type pressure, gap and voltage")
     lv.add_argument("--sim", action="store_true", help="read the simulated bench instead of the profile's ports")
     lv.add_argument("--replay", metavar="PATH", help="play a logbook back through the screen")
-    lv.add_argument("--speed", type=float, default=1.0, help="replay speed: 1 its own pace, 10 ten times faster")
+    lv.add_argument(
+        "--speed",
+        type=number(0.0, 1e6, "a replay speed"),
+        default=1.0,
+        help="replay speed: 1 its own pace, 10 ten times faster, 0 as fast as it goes",
+    )
     lv.add_argument("--log", metavar="PATH", help="logbook file (default: a new file in the user data folder)")
     lv.add_argument("--no-log", action="store_true", help="keep no logbook for this session")
     lv.add_argument("--units", choices=UNIT_CHOICES, default="SI", help="units shown at start")
@@ -43,10 +48,12 @@ def add_gauge(sub) -> None:
         "pressure beside the indicated value), to check the wiring before opening the screen.",
     )
     ga.add_argument("--bench", metavar="FILE", required=True, help="bench profile (.toml), or 'demo'")
-    ga.add_argument("--samples", type=int, default=10, help="stop after this many readings (default 10)")
+    ga.add_argument(
+        "--samples", type=count(1, 10**9, "a number of readings"), default=10, help="stop after this many readings"
+    )
     ga.add_argument(
         "--seconds",
-        type=quantity("time", bare_unit="s"),
+        type=quantity("duration", bare_unit="s"),
         metavar="S",
         default=None,
         help="stop after this long: seconds, or a time with its unit, e.g. 30 or '2 min'",
@@ -66,13 +73,25 @@ def add_record(sub) -> None:
     r.add_argument("--bench", metavar="FILE", required=True, help="bench profile (.toml), or 'demo'")
     r.add_argument(
         "--seconds",
-        type=quantity("time", bare_unit="s"),
+        type=quantity("duration", bare_unit="s"),
         metavar="S",
         required=True,
         help="how long: seconds, or a time with its unit, e.g. 600, '8 h'",
     )
     r.add_argument("--log", metavar="PATH", help="logbook file (default: a new file in the user data folder)")
     r.set_defaults(run=cmd_record)
+
+
+SILENCE_LIMIT = 10.0
+"""s: without --seconds, ``gauge`` gives up after this long without an answer."""
+
+
+def _nothing_answered(verb: str, answered: int, seconds: float) -> int:
+    """Exit status 1, with one line saying so, when no instrument answered (a script must be able to tell)."""
+    if answered:
+        return 0
+    print(f"strikeline {verb}: no instrument answered in {seconds:.3g} s (see the port lines above)", file=sys.stderr)
+    return 1
 
 
 def _print_counts(inst) -> None:
@@ -104,39 +123,44 @@ def sim_ports(profile):
 
 
 def cmd_live(args: argparse.Namespace) -> int:
-    from ...drivers.logbook import read_logbook
+    from ...drivers.logbook import refuse_foreign
     from ...profiles.loader import load_bench
     from ..app import make_app
+    from ..logread import read_log, skipped_text
 
-    if not sys.stdout.isatty():
-        raise UsageError("strikeline live: needs a terminal (for scripts use strike, gauge or record)")
-    if args.speed < 0:
-        raise UsageError(f"strikeline live: --speed {args.speed:g}: give 0 (as fast as possible) or more")
     profile = load_bench(args.bench)
     replay = None
-    if args.replay:
+    notes: list[str] = []
+    if args.replay is not None:
         try:
-            log = read_logbook(args.replay)
+            log = read_log(args.replay)
         except OSError as e:
             raise UsageError(f"strikeline live: --replay {args.replay!r}: cannot be read ({e.strerror or e})") from None
         replay = log.records
         if not any(r.get("kind") == "reading" for r in replay):
             raise UsageError(f"strikeline live: --replay {args.replay!r}: no readings in this logbook")
+        notes += [f"replay: {text}" for text in [skipped_text(log)] if text]
     if args.sim:
         profile = sim_ports(profile)
+    if args.log is not None and not args.no_log:
+        refuse_foreign(Path(args.log))  # a folder, a device or someone's file: said before the terminal check
+    if not sys.stdout.isatty():  # the inputs above are checked first: their errors say more
+        raise UsageError("strikeline live: needs a terminal (for scripts use strike, gauge or record)")
     app = make_app(
         profile,
         manual=args.manual,
         replay=replay,
         speed=args.speed,
-        log_path=Path(args.log) if args.log else None,
+        log_path=None if args.log is None else Path(args.log),
         log=not args.no_log,
+        strict_log=True,  # a logbook that cannot be written stops the start, in one line
         units=args.units,
+        notes=notes,
     )
     app.run()
     if app.session.logbook is not None:
         print(f"strikeline: logbook {app.session.logbook.path}", file=sys.stderr)
-    return 0
+    return app.return_code or 0  # non-zero if the screen itself failed
 
 
 def cmd_gauge(args: argparse.Namespace) -> int:
@@ -150,16 +174,15 @@ def cmd_gauge(args: argparse.Namespace) -> int:
     profile = load_bench(args.bench)
     if not profile.ports:
         raise UsageError(f"strikeline gauge: bench {profile.label!r} has no [[port]] section: nothing to read")
-    if args.samples < 1:
-        raise UsageError(f"strikeline gauge: --samples {args.samples}: give 1 or more")
     q: queue.Queue = queue.Queue()
     events: queue.Queue = queue.Queue()
     inst = Instruments(profile.ports, q.put, lambda port, kind, msg: events.put((port, kind, msg)))
-    deadline = None if args.seconds is None else time.monotonic() + args.seconds
-    count = 0
+    start = time.monotonic()
+    deadline = start + (args.seconds if args.seconds is not None else SILENCE_LIMIT)
+    shown = answered = 0
     inst.start()
     try:
-        while count < args.samples and (deadline is None or time.monotonic() < deadline):
+        while shown < args.samples and time.monotonic() < deadline:
             while not events.empty():
                 port, kind, msg = events.get()
                 print(f"# {port}: {kind} {msg}", file=sys.stderr)
@@ -167,13 +190,20 @@ def cmd_gauge(args: argparse.Namespace) -> int:
                 r = q.get(timeout=0.2)
             except queue.Empty:
                 continue
-            count += 1
+            shown += 1
+            if r.answered:
+                answered += 1
+                if args.seconds is None:  # without --seconds, give up only after a silence
+                    deadline = time.monotonic() + SILENCE_LIMIT
             corr = profile.gauges.get(r.channel)
-            print(json.dumps(reading_json(r, corr)) if args.json else reading_text(r, corr), flush=True)
+            if args.json:
+                print_json(reading_json(r, corr), indent=None, flush=True)
+            else:
+                print(reading_text(r, corr), flush=True)
     finally:
         inst.stop()
     _print_counts(inst)
-    return 0 if count else 1
+    return _nothing_answered("gauge", answered, time.monotonic() - start)
 
 
 def cmd_record(args: argparse.Namespace) -> int:
@@ -189,15 +219,19 @@ def cmd_record(args: argparse.Namespace) -> int:
     profile = load_bench(args.bench)
     if not profile.ports:
         raise UsageError(f"strikeline record: bench {profile.label!r} has no [[port]] section: nothing to record")
-    path = Path(args.log) if args.log else new_logbook_path(profile.bench.name, time.time())
+    path = Path(args.log) if args.log is not None else new_logbook_path(profile.bench.name, time.time())
     errors: list[str | None] = []
     book = Logbook(path, on_error=errors.append)
-    book.open(bench=profile.label, gas=profile.bench.gas.key, cathode=profile.bench.cathode.key, mode="record")
+    # Checked before anything starts: a logbook that cannot be written ends here, in one line.
+    book.open(
+        strict=True, bench=profile.label, gas=profile.bench.gas.key, cathode=profile.bench.cathode.key, mode="record"
+    )
     session = Session(profile, logbook=book)
     q: queue.Queue = queue.Queue()
     inst = Instruments(profile.ports, q.put, lambda port, kind, msg: q.put((port, kind, msg)))
     print(f"strikeline record: logging {profile.label} to {path} for {args.seconds:g} s", file=sys.stderr)
     end = time.monotonic() + args.seconds
+    answered = 0
     next_view = 0.0
     shown_error = None
     inst.start()
@@ -210,6 +244,7 @@ def cmd_record(args: argparse.Namespace) -> int:
             if isinstance(item, tuple):
                 session.event(*item)
             elif item is not None:
+                answered += item.answered
                 session.handle(item)
             if time.monotonic() >= next_view:
                 session.view()
@@ -224,4 +259,6 @@ def cmd_record(args: argparse.Namespace) -> int:
         book.close()
     _print_counts(inst)
     print(f"strikeline record: {book.written} records in {path}", file=sys.stderr)
-    return 0 if book.error is None else 1
+    if book.error is not None:
+        return 1
+    return _nothing_answered("record", answered, args.seconds)

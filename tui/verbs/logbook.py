@@ -3,9 +3,9 @@
 from __future__ import annotations
 
 import argparse
-import json
 import sys
 
+from ..outputs import check_output_file, print_json, write_file
 from .forecast import bench_for
 from .parser import UsageError, add_verb
 
@@ -51,6 +51,8 @@ def cmd_fit(args: argparse.Namespace) -> int:
     from ..calibrate import calibrate, calibration_json, calibration_text, parse_free
 
     bench = bench_for(args, need_gap=False)
+    if args.save is not None:
+        _check_bench_to_save(args.save)  # before any work: the file must load and its folder be writable
     try:
         free = parse_free(args.free)
         table = read_strike_csv(args.points)
@@ -63,40 +65,59 @@ def cmd_fit(args: argparse.Namespace) -> int:
     try:
         cal = calibrate(bench, pts, labels, free)
     except FitRefused as e:
-        raise UsageError(f"strikeline fit: refused: {e}") from None
-    print(
-        json.dumps(calibration_json(cal, table.problems), indent=2)
-        if args.json
-        else calibration_text(cal, table.problems)
-    )
-    if args.save:
+        skipped = f" ({len(table.problems)} rows skipped: {table.problems[0]}...)" if table.problems else ""
+        raise UsageError(f"strikeline fit: refused: {e}{skipped}") from None
+    if args.json:
+        print_json(calibration_json(cal, table.problems))
+    else:
+        print(calibration_text(cal, table.problems))
+    if args.save is not None:
         save_curve(args.save, cal.result.curve)
         print(f"strikeline fit: bench curve saved into {args.save}", file=sys.stderr)
     return 0
 
 
+def _check_bench_to_save(path: str) -> None:
+    from ...profiles.loader import BUILTIN_BENCHES, load_bench
+
+    if path in BUILTIN_BENCHES:
+        raise UsageError(f"--save {path!r}: a built-in bench cannot be changed; copy it to a file and save there")
+    load_bench(path)  # exists, is UTF-8, and loads: a broken file is refused before the fit
+    check_output_file(path, "--save")
+
+
 def cmd_log(args: argparse.Namespace) -> int:
     import csv
+    import io
 
-    from ...drivers.logbook import read_logbook
+    from ..logread import read_log, skipped_text
     from ..logsummary import STRIKE_COLUMNS, strike_rows, summarise
     from ..text import log_summary_text
 
+    header = ",".join(STRIKE_COLUMNS)
+    target = None
+    if args.strikes is not None:  # checked before the logbook is read: nothing is half-written
+        target = check_output_file(args.strikes, "--strikes", ours=lambda first: first == header)
     try:
-        log = read_logbook(args.path)
+        log = read_log(args.path)
     except FileNotFoundError:
         raise UsageError(f"strikeline log: {args.path!r}: no such file; give a logbook (.jsonl)") from None
-    except (OSError, UnicodeDecodeError) as e:
-        raise UsageError(f"strikeline log: {args.path!r}: cannot be read ({e})") from None
+    except OSError as e:
+        raise UsageError(f"strikeline log: {args.path!r}: cannot be read ({e.strerror or e})") from None
     if not log.records:
-        raise UsageError(f"strikeline log: {args.path!r}: no logbook records in it")
+        why = skipped_text(log) or "it is empty"
+        raise UsageError(f"strikeline log: {args.path!r}: no readable logbook records ({why})")
     summary = summarise(log)
-    if args.strikes:
+    if target is not None:
         rows = strike_rows(log)
-        with open(args.strikes, "w", newline="", encoding="utf-8") as f:
-            w = csv.DictWriter(f, fieldnames=STRIKE_COLUMNS)
-            w.writeheader()
-            w.writerows(rows)
+        buf = io.StringIO(newline="")
+        w = csv.DictWriter(buf, fieldnames=STRIKE_COLUMNS, lineterminator="\n")
+        w.writeheader()
+        w.writerows(rows)
+        write_file(target, buf.getvalue(), "--strikes")
         print(f"strikeline log: {len(rows)} strike marks written to {args.strikes}", file=sys.stderr)
-    print(json.dumps(summary, indent=2) if args.json else log_summary_text(summary))
+    if args.json:
+        print_json(summary)
+    else:
+        print(log_summary_text(summary))
     return 0

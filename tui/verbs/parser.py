@@ -3,12 +3,13 @@
 from __future__ import annotations
 
 import argparse
+import math
 from collections.abc import Callable
 
-from ...model import units
+from ...model.limits import LIMITS, parse_within
 from ...model.units import QuantityError
 
-__all__ = ["SAFETY", "UsageError", "add_verb", "build_parser", "quantity"]
+__all__ = ["SAFETY", "UsageError", "add_verb", "build_parser", "count", "number", "quantity"]
 
 SAFETY = (
     "High voltage can kill. strikeline is advisory: it reads instruments and controls nothing. "
@@ -30,20 +31,53 @@ class _Parser(argparse.ArgumentParser):
         raise UsageError(f"{self.prog}: {message} (see {self.prog} --help)")
 
 
-def quantity(kind: str, bare_unit: str | None = None) -> Callable[[str], float]:
-    """An argparse type reading a ``kind`` quantity into SI. An option whose name carries its unit
-    (``--seconds``) gives ``bare_unit``: a bare number is then taken in it ("30" is 30 s), and a
-    quantity with its own unit ("2 min") is still read as written."""
+def quantity(limit: str, bare_unit: str | None = None) -> Callable[[str], float]:
+    """An argparse type reading a quantity into SI inside the physical limit ``limit`` (a name in
+    :data:`strikeline.model.limits.LIMITS`: the same limits a bench profile and the screen apply).
+    An option whose name carries its unit (``--seconds``) gives ``bare_unit``: a bare number is then
+    taken in it ("30" is 30 s), and a quantity with its own unit ("2 min") is still read as written."""
+
+    def read(text: str) -> float:
+        if bare_unit is not None and _is_number(text):
+            text = f"{text.strip()} {bare_unit}"
+        try:
+            return parse_within(text, limit, label=LIMITS[limit].kind)
+        except QuantityError as e:  # argparse shows ArgumentTypeError text as it is
+            raise argparse.ArgumentTypeError(str(e)) from None
+
+    read.__name__ = limit
+    return read
+
+
+def number(low: float, high: float, what: str) -> Callable[[str], float]:
+    """An argparse type for a plain finite number from ``low`` to ``high`` (NaN and infinity refused)."""
 
     def read(text: str) -> float:
         try:
-            return units.parse(text, kind)
-        except QuantityError as e:  # argparse shows ArgumentTypeError text as it is
-            if bare_unit is not None and _is_number(text):
-                return read(f"{text.strip()} {bare_unit}")
-            raise argparse.ArgumentTypeError(str(e)) from None
+            x = float(text)
+        except ValueError:
+            x = math.nan
+        if not (math.isfinite(x) and low <= x <= high):
+            raise argparse.ArgumentTypeError(f"{text!r} is not {what} from {low:g} to {high:g}")
+        return x
 
-    read.__name__ = kind
+    read.__name__ = what
+    return read
+
+
+def count(low: int, high: int, what: str) -> Callable[[str], int]:
+    """An argparse type for a whole number from ``low`` to ``high``."""
+
+    def read(text: str) -> int:
+        try:
+            n = int(text.strip())
+        except ValueError:
+            n = low - 1
+        if not low <= n <= high:
+            raise argparse.ArgumentTypeError(f"{text!r} is not {what}: a whole number from {low} to {high}")
+        return n
+
+    read.__name__ = what
     return read
 
 

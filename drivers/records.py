@@ -1,0 +1,162 @@
+"""What a logbook record must hold to be read: the one check every reader of a logbook goes through.
+
+A record that is not what its kind promises (a time written as text, a value that is a list, a
+strike mark with text where a number belongs, a name of megabytes, NaN) is refused with one short
+reason, and the reader counts and reports it instead of passing it on. New fields may be added to
+any kind; the fields below are checked where they are present and required where marked.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable, Mapping
+from typing import Any
+
+from .reading import QUANTITIES, Status
+
+__all__ = ["EARLIEST", "KINDS", "LATEST", "MAX_NAME", "MAX_TEXT", "record_problem"]
+
+EARLIEST = 946684800.0
+"""2000-01-01 UTC: no logbook of this tool is older (a negative or tiny time is a corrupt record)."""
+LATEST = 7258118400.0
+"""2200-01-01 UTC."""
+MAX_NAME = 64
+"""Characters in a channel, port, field or flag name."""
+MAX_TEXT = 4096
+"""Characters in any other text (a raw answer, a reason, a note)."""
+
+Check = Callable[[Any], bool]
+
+
+def _number(x: Any) -> bool:
+    return isinstance(x, int | float) and not isinstance(x, bool) and math.isfinite(x)
+
+
+def _positive(x: Any) -> bool:
+    return _number(x) and x > 0
+
+
+def _name(x: Any) -> bool:
+    return isinstance(x, str) and 0 < len(x) <= MAX_NAME and x.isprintable()
+
+
+def _text(x: Any) -> bool:
+    return isinstance(x, str) and len(x) <= MAX_TEXT
+
+
+def _optional(check: Check) -> Check:
+    return lambda x: x is None or check(x)
+
+
+def _one_of(*allowed: str) -> Check:
+    return lambda x: x in allowed
+
+
+def _count(x: Any) -> bool:
+    return isinstance(x, int) and not isinstance(x, bool) and x >= 0
+
+
+_BOOL: Check = lambda x: isinstance(x, bool)  # noqa: E731
+_WHAT = {
+    _number: "a finite number",
+    _positive: "a number above zero",
+    _name: f"a name of 1-{MAX_NAME} printable characters",
+    _text: f"a text of at most {MAX_TEXT} characters",
+    _count: "a whole number of 0 or more",
+    _BOOL: "true or false",
+}
+
+# kind -> field -> (check, required)
+_FIELDS: dict[str, dict[str, tuple[Check, bool]]] = {
+    "session": {f: (_text, False) for f in ("format", "bench", "gas", "cathode", "mode")},
+    "reading": {
+        "channel": (_name, True),
+        "quantity": (_one_of(*QUANTITIES), True),
+        "status": (_one_of(*(s.value for s in Status)), True),
+        "value": (_optional(_number), False),
+        "indicated": (_optional(_number), False),
+        "approximate": (_BOOL, False),
+        "source": (_text, False),
+        "raw": (_text, False),
+    },
+    "entry": {"field": (_name, True), "text": (_text, False), "accepted": (_BOOL, False), "message": (_text, False)},
+    "strike": {
+        "pressure_Pa": (_positive, True),
+        "gap_m": (_positive, True),
+        "voltage_V": (_positive, True),
+        "gas_temperature_K": (_optional(_positive), False),
+        **{f: (_text, False) for f in ("pressure_source", "gas", "cathode", "note", "made_by")},
+    },
+    "forecast": {
+        "withdrawn": (_optional(_text), False),
+        **{f: (_optional(_number), False) for f in ("pressure_Pa", "gap_m", "voltage_V", "breakdown_V", "margin_V")},
+        "strikes": (_optional(_BOOL), False),
+        **{f: (_optional(_text), False) for f in ("branch", "regime", "worst")},
+    },
+    "flag": {
+        "code": (_name, True),
+        "level": (_one_of("ok", "watch", "danger"), True),
+        "reason": (_text, False),
+        "change": (_one_of("raised", "cleared"), True),
+    },
+    "event": {
+        "port": (_optional(_text), False),
+        "event": (_text, True),
+        "message": (_text, False),
+        **{
+            f: (_count, False)
+            for f in ("readings", "garbled", "unanswered", "overlong", "faults", "reconnects", "exceptions")
+        },
+    },
+}
+KINDS = tuple(_FIELDS)
+"""The record kinds this version reads."""
+
+
+def _describe(check: Check) -> str:
+    return _WHAT.get(check, "a value of the documented form")
+
+
+def record_problem(rec: Any, ranges: Mapping[str, tuple[float, float]] | None = None) -> str | None:
+    """Why ``rec`` is not a readable logbook record, in a few words; None when it is.
+
+    ``ranges`` adds accepted (low, high) ranges of numeric fields by name (the physical limits the
+    caller holds, e.g. ``{"pressure_Pa": (1e-6, 1e6)}``).
+
+    >>> record_problem({"kind": "strike", "t_unix": 1.8e9, "pressure_Pa": "lots", "gap_m": 0.03, "voltage_V": 400})
+    "strike field 'pressure_Pa' is 'lots', not a number above zero"
+    >>> record_problem({"kind": "reading", "t_unix": -2e9, "channel": "c", "quantity": "pressure", "status": "ok"})
+    't_unix -2e+09 is not a time from 2000 to 2200'
+    """
+    if not isinstance(rec, dict):
+        return "not a JSON object"
+    kind = rec.get("kind")
+    if not isinstance(kind, str) or kind not in _FIELDS:
+        return f"kind {str(kind)[:MAX_NAME]!r} is not one of {', '.join(KINDS)}"
+    t = rec.get("t_unix")
+    if not _number(t):
+        return f"t_unix {_shown(t)} is not a number of seconds"
+    if not EARLIEST <= t <= LATEST:
+        return f"t_unix {t:g} is not a time from 2000 to 2200"
+    if "mono" in rec and not (_number(rec["mono"]) and rec["mono"] >= 0):
+        return f"mono {_shown(rec['mono'])} is not a number of seconds of 0 or more"
+    if "t" in rec and not _text(rec["t"]):
+        return f"t {_shown(rec['t'])} is not a time text"
+    for field, (check, required) in _FIELDS[kind].items():
+        if field not in rec:
+            if required:
+                return f"{kind} has no {field!r}"
+            continue
+        value = rec[field]
+        if not check(value):
+            return f"{kind} field {field!r} is {_shown(value)}, not {_describe(check)}"
+        if ranges and field in ranges and _number(value):
+            lo, hi = ranges[field]
+            if not lo <= value <= hi:
+                return f"{kind} field {field!r} is {value:g}, outside {lo:g} to {hi:g}"
+    return None
+
+
+def _shown(x: Any) -> str:
+    text = repr(x)
+    return text if len(text) <= 40 else text[:37] + "..."

@@ -1,0 +1,536 @@
+"""Hostile input, as a new user (or a corrupt file) gives it: every case ends in a clean one-line
+error with exit status 2, a reported skip, or a correct result; never a traceback or an internal
+error. Each case states its exact exit status and a piece of its one line.
+
+Files a case needs are made in a temporary folder; ``{tmp}`` in an argument is that folder.
+"""
+
+import json
+import subprocess
+import sys
+
+import pytest
+from strikeline.tui import cli
+
+pytestmark = pytest.mark.timeout(60)
+
+BENCH = '[bench]\ngas = "Ar"\ncathode = "Cu"\ngap = "30 mm"\n'
+PORT = (
+    '[[port]]\nurl = "loop://"\nmode = "streaming"\n[[port.channel]]\nname = "p"\nquantity = "pressure"\n'
+    'pattern = "(?P<value>.*)"\nunit = "Pa"\n'
+)
+T = 1.8e9  # a time in 2027, inside what a logbook may hold
+SESSION = {"kind": "session", "t": "2027-01-15T08:00:00Z", "t_unix": T, "mono": 0, "format": "strikeline-logbook/1"}
+READING = {"kind": "reading", "t_unix": T, "mono": 1, "channel": "chamber", "quantity": "pressure", "status": "ok",
+           "value": 16.0, "indicated": 10.0}  # fmt: skip
+STRIKE = {"kind": "strike", "t_unix": T + 1, "mono": 2, "pressure_Pa": 20.0, "gap_m": 0.03, "voltage_V": 450.0}
+
+
+def logbook(*bad: object, raw: str | None = None) -> str:
+    """A valid logbook with ``bad`` records (dicts, or raw text lines) in the middle."""
+    lines = [json.dumps(SESSION), json.dumps(READING)]
+    lines += [b if isinstance(b, str) else json.dumps(b) for b in bad]
+    lines += [json.dumps(STRIKE)]
+    return (raw if raw is not None else "\n".join(lines)) + "\n"
+
+
+def with_(base: dict, **changes) -> dict:
+    out = dict(base)
+    for k, v in changes.items():
+        if v is ...:
+            out.pop(k, None)
+        else:
+            out[k] = v
+    return out
+
+
+# (id, argv, {file name: text or bytes}, exit status, a piece of the one stderr line)
+CLI = [
+    # strike: every quantity against the one set of physical limits
+    ("pressure huge", ["strike", "--bench", "demo", "--pressure", "1e30 Pa"], {}, 2, "outside 1e-06 to 1e+06 Pa"),
+    ("pressure tiny", ["strike", "--bench", "demo", "--pressure", "5e-7 Pa"], {}, 2, "outside 1e-06"),
+    ("pressure zero", ["strike", "--bench", "demo", "--pressure", "0 Pa"], {}, 2, "must be above zero"),
+    ("pressure negative", ["strike", "--bench", "demo", "--pressure", "-5 Pa"], {}, 2, "must be above zero"),
+    ("pressure nan", ["strike", "--bench", "demo", "--pressure", "nan Pa"], {}, 2, "not a quantity"),
+    ("pressure inf", ["strike", "--bench", "demo", "--pressure", "inf Pa"], {}, 2, "not a quantity"),
+    ("pressure overflow", ["strike", "--bench", "demo", "--pressure", "1e999 Pa"], {}, 2, "not a finite number"),
+    ("pressure bare", ["strike", "--bench", "demo", "--pressure", "5"], {}, 2, "needs a unit"),
+    ("pressure unit", ["strike", "--bench", "demo", "--pressure", "5 bananas"], {}, 2, "unknown unit 'bananas'"),
+    ("pressure empty", ["strike", "--bench", "demo", "--pressure", ""], {}, 2, "not a quantity"),
+    ("pressure unit only", ["strike", "--bench", "demo", "--pressure", "Pa"], {}, 2, "not a quantity"),
+    ("pressure comma", ["strike", "--bench", "demo", "--pressure", "2,5 Pa"], {}, 2, "not a quantity"),
+    ("pressure MBAR", ["strike", "--bench", "demo", "--pressure", "5 MBAR"], {}, 2, "unknown unit"),
+    ("gap huge", ["strike", "--bench", "demo", "--gap", "1e300 m"], {}, 2, "outside 1e-06 to 10 m"),
+    ("gap tiny", ["strike", "--bench", "demo", "--gap", "0.1 um"], {}, 2, "outside 1e-06 to 10 m"),
+    ("gap negative", ["strike", "--bench", "demo", "--gap", "-1mm"], {}, 2, "must be above zero"),
+    ("gap bare", ["strike", "--bench", "demo", "--gap", "3"], {}, 2, "needs a unit"),
+    ("gap furlongs", ["strike", "--bench", "demo", "--gap", "3 furlongs"], {}, 2, "unknown unit"),
+    ("voltage huge", ["strike", "--bench", "demo", "--voltage", "1e300 V"], {}, 2, "outside 1 to 1e+06 V"),
+    ("voltage tiny", ["strike", "--bench", "demo", "--voltage", "0.5 V"], {}, 2, "outside 1 to 1e+06 V"),
+    ("voltage negative", ["strike", "--bench", "demo", "--voltage", "-600V"], {}, 2, "must be above zero"),
+    ("voltage bare", ["strike", "--bench", "demo", "--voltage", "600"], {}, 2, "needs a unit"),
+    ("voltage millivolt", ["strike", "--bench", "demo", "--voltage", "600 mV"], {}, 2, "outside 1 to 1e+06 V"),
+    ("temperature cold", ["strike", "--bench", "demo", "--temperature", "5 K"], {}, 2, "outside 20 to 3000 K"),
+    ("temperature hot", ["strike", "--bench", "demo", "--temperature", "4000 K"], {}, 2, "outside 20 to 3000 K"),
+    ("temperature abs zero", ["strike", "--bench", "demo", "--temperature", "-300 C"], {}, 2, "above zero"),
+    ("temperature bare", ["strike", "--bench", "demo", "--temperature", "20"], {}, 2, "one of K, C"),
+    ("gamma zero", ["strike", "--bench", "demo", "--gamma", "0"], {}, 2, "not a secondary-electron yield"),
+    ("gamma negative", ["strike", "--bench", "demo", "--gamma=-1"], {}, 2, "not a secondary-electron yield"),
+    ("gamma three", ["strike", "--bench", "demo", "--gamma", "3"], {}, 2, "not a secondary-electron yield"),
+    ("gamma nan", ["strike", "--bench", "demo", "--gamma", "nan"], {}, 2, "not a secondary-electron yield"),
+    ("gamma inf", ["strike", "--bench", "demo", "--gamma", "inf"], {}, 2, "not a secondary-electron yield"),
+    ("gamma text", ["strike", "--bench", "demo", "--gamma", "high"], {}, 2, "not a secondary-electron yield"),
+    ("gas unknown", ["strike", "--bench", "demo", "--gas", "bananium"], {}, 2, "gas 'bananium': unknown"),
+    ("gas empty", ["strike", "--bench", "demo", "--gas", ""], {}, 2, "gas '': unknown"),
+    ("cathode unknown", ["strike", "--bench", "demo", "--cathode", "gold"], {}, 2, "cathode 'gold': unknown"),
+    ("bench missing", ["strike", "--bench", "{tmp}/none.toml"], {}, 2, "no such file"),
+    ("bench folder", ["strike", "--bench", "{tmp}"], {}, 2, "cannot be read"),
+    ("bench binary", ["strike", "--bench", "{tmp}/b.toml"], {"b.toml": b"\xff\xfe\x00\x01"}, 2, "cannot be read"),
+    ("units unknown", ["strike", "--bench", "demo", "--units", "furlongs"], {}, 2, "invalid choice"),
+    ("no pressure", ["strike", "--gas", "Ar", "--cathode", "Cu", "--gap", "1mm"], {}, 2, "--pressure needed"),
+    ("no gap", ["strike", "--gas", "Ar", "--cathode", "Cu", "--pressure", "1 Pa"], {}, 2, "--gap needed"),
+    ("no cathode", ["strike", "--gas", "Ar", "--pressure", "1 Pa", "--gap", "1mm"], {}, 2, "--cathode needed"),
+    ("unknown option", ["strike", "--bogus"], {}, 2, "unrecognized arguments"),
+    ("unknown verb", ["frobnicate"], {}, 2, "invalid choice"),
+    # curve
+    ("points one", ["curve", "--bench", "demo", "--points", "1"], {}, 2, "not a number of points"),
+    ("points zero", ["curve", "--bench", "demo", "--points", "0"], {}, 2, "not a number of points"),
+    ("points huge", ["curve", "--bench", "demo", "--points", "2000000"], {}, 2, "not a number of points"),
+    ("points float", ["curve", "--bench", "demo", "--points", "1e9"], {}, 2, "not a number of points"),
+    ("points text", ["curve", "--bench", "demo", "--points", "many"], {}, 2, "not a number of points"),
+    ("span tiny", ["curve", "--bench", "demo", "--from", "1e-300 Torr cm"], {}, 2, "outside 1e-12 to 1e+07 Pa m"),
+    ("span huge", ["curve", "--bench", "demo", "--to", "1e300 Torr cm"], {}, 2, "outside 1e-12 to 1e+07 Pa m"),
+    (
+        "span inverted",
+        ["curve", "--bench", "demo", "--from", "10 Torr cm", "--to", "1 Torr cm"],
+        {},
+        2,
+        "--from must be below --to",
+    ),
+    ("span pressure w/o gap", ["curve", "--bench", "demo", "--from", "1 Pa"], {}, 2, "add --gap to sweep pressure"),
+    (
+        "span pressure huge",
+        ["curve", "--bench", "demo", "--gap", "1 cm", "--from", "1e30 Pa"],
+        {},
+        2,
+        "outside 1e-06 to 1e+06 Pa",
+    ),
+    ("span text", ["curve", "--bench", "demo", "--from", "low"], {}, 2, "not a pd value"),
+    ("span unit", ["curve", "--bench", "demo", "--from", "5 Torr furlong"], {}, 2, "unknown unit 'furlong'"),
+    ("span zero", ["curve", "--bench", "demo", "--from", "0 Torr cm"], {}, 2, "must be a finite value above zero"),
+    # gauge and record
+    ("samples zero", ["gauge", "--bench", "demo", "--samples", "0"], {}, 2, "not a number of readings"),
+    ("samples negative", ["gauge", "--bench", "demo", "--samples=-1"], {}, 2, "not a number of readings"),
+    ("samples text", ["gauge", "--bench", "demo", "--samples", "ten"], {}, 2, "not a number of readings"),
+    ("gauge seconds huge", ["gauge", "--bench", "demo", "--seconds", "1e300 s"], {}, 2, "outside 0.001 to 604800 s"),
+    ("gauge seconds zero", ["gauge", "--bench", "demo", "--seconds", "0"], {}, 2, "must be above zero"),
+    ("gauge seconds unit", ["gauge", "--bench", "demo", "--seconds", "5 parsecs"], {}, 2, "unknown unit"),
+    ("gauge no ports", ["gauge", "--bench", "demo-magnetron"], {}, 2, "no [[port]] section"),
+    ("gauge no bench", ["gauge"], {}, 2, "the following arguments are required: --bench"),
+    ("record seconds huge", ["record", "--bench", "demo", "--seconds", "1e300 s"], {}, 2, "outside 0.001 to 604800 s"),
+    ("record seconds text", ["record", "--bench", "demo", "--seconds", "long"], {}, 2, "not a quantity"),
+    ("record no seconds", ["record", "--bench", "demo"], {}, 2, "required: --seconds"),
+    ("record log empty", ["record", "--bench", "demo", "--seconds", "1", "--log", ""], {}, 2, "path is empty"),
+    (
+        "record log proc",
+        ["record", "--bench", "demo", "--seconds", "1", "--log", "/proc/x/l.jsonl"],
+        {},
+        2,
+        "cannot be made",
+    ),
+    ("record log sys", ["record", "--bench", "demo", "--seconds", "1", "--log", "/sys/l.jsonl"], {}, 2, "cannot write"),
+    (
+        "record log under file",
+        ["record", "--bench", "demo", "--seconds", "1", "--log", "{tmp}/f.txt/l.jsonl"],
+        {"f.txt": "a file"},
+        2,
+        "Not a directory",
+    ),
+    ("record log folder", ["record", "--bench", "demo", "--seconds", "1", "--log", "{tmp}"], {}, 2, "is a folder"),
+    (
+        "record log device",
+        ["record", "--bench", "demo", "--seconds", "1", "--log", "/dev/full"],
+        {},
+        2,
+        "not a regular file",
+    ),
+    (
+        "record log foreign",
+        ["record", "--bench", "demo", "--seconds", "1", "--log", "{tmp}/results.csv"],
+        {"results.csv": "sample,value\na,1\n"},
+        2,
+        "is not a strikeline logbook",
+    ),
+    ("record no ports", ["record", "--bench", "demo-magnetron", "--seconds", "1"], {}, 2, "no [[port]] section"),
+    # live: inputs are checked before the terminal is
+    ("speed nan", ["live", "--speed", "nan"], {}, 2, "not a replay speed"),
+    ("speed negative", ["live", "--speed=-1"], {}, 2, "not a replay speed"),
+    ("speed inf", ["live", "--speed", "inf"], {}, 2, "not a replay speed"),
+    ("speed text", ["live", "--speed", "fast"], {}, 2, "not a replay speed"),
+    ("live units", ["live", "--units", "cubits"], {}, 2, "invalid choice"),
+    ("replay missing", ["live", "--replay", "{tmp}/none.jsonl"], {}, 2, "cannot be read"),
+    ("replay foreign", ["live", "--replay", "{tmp}/r.csv"], {"r.csv": "a,b\n1,2\n"}, 2, "no readings"),
+    (
+        "replay no readings",
+        ["live", "--replay", "{tmp}/s.jsonl"],
+        {"s.jsonl": json.dumps(SESSION) + "\n"},
+        2,
+        "no readings",
+    ),
+    ("live log foreign", ["live", "--log", "{tmp}/r.csv"], {"r.csv": "a,b\n"}, 2, "is not a strikeline logbook"),
+    ("live log folder", ["live", "--log", "{tmp}"], {}, 2, "is a folder"),
+    ("live bench", ["live", "--bench", "{tmp}/none.toml"], {}, 2, "no such file"),
+    ("live no terminal", ["live"], {}, 2, "needs a terminal"),
+    # log: the logbook itself
+    ("log missing", ["log", "{tmp}/none.jsonl"], {}, 2, "no such file"),
+    ("log folder", ["log", "{tmp}"], {}, 2, "cannot be read"),
+    ("log empty", ["log", "{tmp}/e.jsonl"], {"e.jsonl": ""}, 2, "no readable logbook records (it is empty)"),
+    ("log binary", ["log", "{tmp}/b.jsonl"], {"b.jsonl": b"\x00\xff\x13garbage\n\x01\n"}, 2, "not JSON"),
+    ("log all bad", ["log", "{tmp}/a.jsonl"], {"a.jsonl": '{"kind": 5}\n[1,2]\n'}, 2, "skipped 2 lines"),
+    ("log csv", ["log", "{tmp}/c.csv"], {"c.csv": "sample,value\na,1\n"}, 2, "not JSON"),
+    ("strikes empty", ["log", "{tmp}/l.jsonl", "--strikes", ""], {"l.jsonl": logbook()}, 2, "--strikes is empty"),
+    ("strikes folder", ["log", "{tmp}/l.jsonl", "--strikes", "{tmp}"], {"l.jsonl": logbook()}, 2, "is a folder"),
+    (
+        "strikes proc",
+        ["log", "{tmp}/l.jsonl", "--strikes", "/proc/x/s.csv"],
+        {"l.jsonl": logbook()},
+        2,
+        "does not exist",
+    ),
+    (
+        "strikes foreign",
+        ["log", "{tmp}/l.jsonl", "--strikes", "{tmp}/r.csv"],
+        {"l.jsonl": logbook(), "r.csv": "sample,value\n"},
+        2,
+        "was not written by strikeline",
+    ),
+    (
+        "strikes device",
+        ["log", "{tmp}/l.jsonl", "--strikes", "/dev/full"],
+        {"l.jsonl": logbook()},
+        2,
+        "not a regular file",
+    ),
+    # fit: the CSV and the bench to save into
+    ("fit missing", ["fit", "{tmp}/none.csv", "--bench", "demo"], {}, 2, "no such file"),
+    ("fit folder", ["fit", "{tmp}", "--bench", "demo"], {}, 2, "cannot be read"),
+    ("fit empty", ["fit", "{tmp}/e.csv", "--bench", "demo"], {"e.csv": ""}, 2, "empty; give a header line"),
+    (
+        "fit header only",
+        ["fit", "{tmp}/h.csv", "--bench", "demo"],
+        {"h.csv": "pressure_Pa,gap_m,voltage_V\n"},
+        2,
+        "no usable rows",
+    ),
+    (
+        "fit no voltage",
+        ["fit", "{tmp}/n.csv", "--bench", "demo"],
+        {"n.csv": "pressure_Pa,gap_m\n20,0.03\n"},
+        2,
+        "no voltage column",
+    ),
+    (
+        "fit header unit",
+        ["fit", "{tmp}/u.csv", "--bench", "demo"],
+        {"u.csv": "pressure [furlong],gap_m,voltage_V\n20,0.03,400\n"},
+        2,
+        "unknown unit 'furlong'",
+    ),
+    (
+        "fit rows bad",
+        ["fit", "{tmp}/r.csv", "--bench", "demo"],
+        {"r.csv": "pressure_Pa,gap_m,voltage_V\nlots,0.03,400\n1e30,0.03,400\n20,0.03,1e9\n"},
+        2,
+        "no usable rows",
+    ),
+    (
+        "fit too few",
+        ["fit", "{tmp}/f.csv", "--bench", "demo"],
+        {"f.csv": "pressure_Pa,gap_m,voltage_V\n20,0.03,400\n"},
+        2,
+        "too few points",
+    ),
+    ("fit binary", ["fit", "{tmp}/b.csv", "--bench", "demo"], {"b.csv": b"\xff\xfe\x00pressure"}, 2, "cannot be read"),
+    (
+        "fit free unknown",
+        ["fit", "{tmp}/f.csv", "--bench", "demo", "--free", "X"],
+        {"f.csv": "pressure_Pa\n"},
+        2,
+        "'X' is not one of A, B, gamma",
+    ),
+    (
+        "fit free A,gamma",
+        ["fit", "{tmp}/f.csv", "--bench", "demo", "--free", "A,gamma"],
+        {"f.csv": "pressure_Pa,gap_m,voltage_V\n" + "".join(f"{p},0.03,{300 + p}\n" for p in (10, 20, 40, 80, 160))},
+        2,
+        "no set of strikes can tell them apart",
+    ),
+    ("fit no gas", ["fit", "{tmp}/f.csv"], {"f.csv": "pressure_Pa\n"}, 2, "--gas and --cathode needed"),
+    (
+        "save builtin",
+        ["fit", "{tmp}/f.csv", "--bench", "demo", "--save", "demo"],
+        {"f.csv": "x\n"},
+        2,
+        "a built-in bench cannot be changed",
+    ),
+    (
+        "save missing",
+        ["fit", "{tmp}/f.csv", "--bench", "demo", "--save", "{tmp}/none.toml"],
+        {"f.csv": "x\n"},
+        2,
+        "no such file",
+    ),
+    (
+        "save not utf8",
+        ["fit", "{tmp}/f.csv", "--bench", "demo", "--save", "{tmp}/b.toml"],
+        {"f.csv": "x\n", "b.toml": b'[bench]\nname = "\xff"\n'},
+        2,
+        "cannot be read",
+    ),
+    (
+        "save broken",
+        ["fit", "{tmp}/f.csv", "--bench", "demo", "--save", "{tmp}/b.toml"],
+        {"f.csv": "x\n", "b.toml": "[bench\n"},
+        2,
+        "not valid TOML",
+    ),
+]
+
+# Bench files: one bad field each, read through `strike --bench` (so a profile and the command
+# line are held to the same limits and messages).
+PROFILES = [
+    ("gap missing", '[bench]\ngas = "Ar"\ncathode = "Cu"\n', "[bench] gap: missing"),
+    ("gap huge", BENCH.replace("30 mm", "1e9 m"), "outside 1e-06 to 10 m"),
+    ("gap bare", BENCH.replace('"30 mm"', '"30"'), "needs a unit"),
+    ("gap number", BENCH.replace('"30 mm"', "30"), "needs a unit"),
+    ("gas missing", '[bench]\ncathode = "Cu"\ngap = "3 mm"\n', "[bench] gas: missing"),
+    ("gas unknown", BENCH.replace('"Ar"', '"Arr"'), "gas 'Arr': unknown"),
+    ("gas list", BENCH.replace('"Ar"', '["Ar"]'), "is not a non-empty text"),
+    ("cathode unknown", BENCH.replace('"Cu"', '"gold"'), "cathode 'gold': unknown"),
+    ("pressure huge", BENCH + 'pressure = "1e30 Pa"\n', "outside 1e-06 to 1e+06 Pa"),
+    ("temperature cold", BENCH + 'gas_temperature = "5 K"\n', "outside 20 to 3000 K"),
+    ("gamma two", BENCH + "gamma = 2\n", "is not a number from 1e-06 to 1"),
+    ("gamma text", BENCH + 'gamma = "high"\n', "is not a number from 1e-06 to 1"),
+    ("field huge", BENCH + 'magnetic_field = "1e3 T"\n', "outside 1e-06 to 10 T"),
+    ("area zero", BENCH + 'cathode_area = "0 cm2"\n', "must be above zero"),
+    ("unknown field", BENCH + 'colour = "red"\n', "colour: unknown field"),
+    ("unknown section", BENCH + "[other]\n", "other: unknown field"),
+    ("toml broken", "[bench\n", "not valid TOML"),
+    ("bench not table", "bench = 5\n", "[bench] must be a table"),
+    ("supply volts huge", BENCH + '[supply]\nopen_circuit_voltage = "1e300 V"\n', "outside 1 to 1e+06 V"),
+    ("supply volts missing", BENCH + "[supply]\n", "open_circuit_voltage: missing"),
+    ("supply mode", BENCH + '[supply]\nopen_circuit_voltage = "1 kV"\nmode = "steam"\n', "is not one of"),
+    (
+        "pulsed no frequency",
+        BENCH + '[supply]\nopen_circuit_voltage = "1 kV"\nmode = "pulsed"\noff_time = "1 us"\n',
+        "frequency: missing",
+    ),
+    (
+        "off-time too long",
+        BENCH + '[supply]\nopen_circuit_voltage = "1 kV"\nmode = "pulsed"\nfrequency = "10 kHz"\noff_time = "1 ms"\n',
+        "is not shorter than one period",
+    ),
+    (
+        "ballast negative",
+        BENCH + '[supply]\nopen_circuit_voltage = "1 kV"\nballast = "-5 ohm"\n',
+        "must be zero or more",
+    ),
+    (
+        "current huge",
+        BENCH + '[supply]\nopen_circuit_voltage = "1 kV"\ncurrent_limit = "1e9 A"\n',
+        "outside 1e-09 to 10000 A",
+    ),
+    ("stray not list", 'stray_gap = "shield"\n' + BENCH, "must be a list of tables"),
+    ("stray no length", BENCH + '[[stray_gap]]\nname = "shield"\n', "length: missing"),
+    ("stray tiny", BENCH + '[[stray_gap]]\nname = "shield"\nlength = "1 nm"\n', "outside 1e-06 to 10 m"),
+    ("chamber bare", BENCH + "[chamber]\nradius = 3\n", "radius 3: needs a unit"),
+    ("chamber tiny", BENCH + '[chamber]\nradius = "0.1 mm"\nlength = "1 m"\n', "outside 0.001 to 10 m"),
+    ("port no channel", BENCH + '[[port]]\nurl = "loop://"\n', "give at least one [[port.channel]]"),
+    ("port not list", 'port = "COM1"\n' + BENCH, "must be a list of tables"),
+    (
+        "port timeout long",
+        BENCH + PORT.replace('mode = "streaming"', 'mode = "streaming"\ntimeout = "1 h"'),
+        "outside 0.001 to 60 s",
+    ),
+    ("port parity", BENCH + PORT.replace('mode = "streaming"', 'mode = "streaming"\nparity = "X"'), "is not one of"),
+    (
+        "port baud",
+        BENCH + PORT.replace('mode = "streaming"', 'mode = "streaming"\nbaudrate = 3'),
+        "is not a number from 50",
+    ),
+    ("channel regex", BENCH + PORT.replace("(?P<value>.*)", "("), "not a valid regular expression"),
+    ("channel no value", BENCH + PORT.replace("(?P<value>.*)", "x"), "(?P<value>...)"),
+    ("channel quantity", BENCH + PORT.replace('"pressure"', '"flux"'), "'flux' is not one of"),
+    ("channel unit", BENCH + PORT.replace('unit = "Pa"', 'unit = "bananas"'), "is not a pressure unit"),
+    ("channel status", BENCH + PORT + 'status = { X = "fine" }\n', "'fine' is not one of ok"),
+    ("channel twice", BENCH + PORT + PORT, "is used by another channel"),
+    ("channel scale", BENCH + PORT + "scale = 1e300\n", "is not a number from -1e+12"),
+    ("channel gauge kind", BENCH + PORT + 'gauge = "magic"\n', "is not one of capacitance"),
+    ("polled no query", BENCH + PORT.replace('mode = "streaming"', 'mode = "polled"'), "query: missing"),
+    (
+        "curve inverted",
+        BENCH + '[curve]\ngas = "argon"\ncathode = "copper"\nfitted_on = "2026-11-30"\nn_points = 8\n'
+        "A_per_Pa_m = 9.0\nB_V_per_Pa_m = 135.0\ngamma = 0.07\nA_sigma = 0.1\nB_sigma = 1.0\ngamma_sigma = 0.001\n"
+        "covariance_ln = [[1e-4, 0, 0], [0, 1e-4, 0], [0, 0, 0]]\nresidual_scale = 0.02\nt_quantile = 2.4\n"
+        "rms_residual_V = 5.0\npd_low_Pa_m = 3.0\npd_high_Pa_m = 0.3\n",
+        "the fitted range is inverted",
+    ),
+    ("curve other gas", BENCH + '[curve]\ngas = "helium"\ncathode = "copper"\n', "fitted for helium on copper"),
+    (
+        "curve covariance",
+        BENCH + '[curve]\ngas = "argon"\ncathode = "copper"\ncovariance_ln = [1, 2]\n',
+        "is not a 3 x 3 list",
+    ),
+]
+
+# Logbook records, each malformed in one field: `log` skips the line and names it (exit 0).
+RECORDS = [
+    ("time missing", with_(READING, t_unix=...), "t_unix None is not a number"),
+    ("time text", with_(READING, t_unix="soon"), "t_unix 'soon' is not a number"),
+    ("time negative", with_(READING, t_unix=-2e9), "is not a time from 2000 to 2200"),
+    ("time 1913", with_(READING, t_unix=-1.8e9), "is not a time from 2000 to 2200"),
+    ("time far future", with_(READING, t_unix=1e12), "is not a time from 2000 to 2200"),
+    ("time list", with_(READING, t_unix=[1]), "is not a number of seconds"),
+    ("time bool", with_(READING, t_unix=True), "is not a number of seconds"),
+    ("mono negative", with_(READING, mono=-1), "mono -1 is not"),
+    ("mono text", with_(READING, mono="x"), "mono 'x' is not"),
+    ("kind missing", with_(READING, kind=...), "kind 'None' is not one of"),
+    ("kind unknown", with_(READING, kind="weather"), "kind 'weather' is not one of"),
+    ("kind list", with_(READING, kind=["reading"]), "is not one of"),
+    ("channel list", with_(READING, channel=["a"]), "field 'channel' is ['a']"),
+    ("channel empty", with_(READING, channel=""), "field 'channel' is ''"),
+    ("channel huge", with_(READING, channel="c" * 100_000), "a name of 1-64 printable characters"),
+    ("channel control", with_(READING, channel="a\x1b[2Jb"), "a name of 1-64 printable characters"),
+    ("channel missing", with_(READING, channel=...), "reading has no 'channel'"),
+    ("quantity unknown", with_(READING, quantity="flux"), "field 'quantity' is 'flux'"),
+    ("status unknown", with_(READING, status="fine"), "field 'status' is 'fine'"),
+    ("value text", with_(READING, value="lots"), "field 'value' is 'lots'"),
+    ("value list", with_(READING, value=[1, 2]), "field 'value' is [1, 2]"),
+    ("value bool", with_(READING, value=True), "field 'value' is True"),
+    ("indicated dict", with_(READING, indicated={"a": 1}), "field 'indicated' is"),
+    ("raw huge", with_(READING, raw="r" * 10_000), "field 'raw' is"),
+    ("approximate text", with_(READING, approximate="yes"), "field 'approximate' is 'yes'"),
+    ("strike text", with_(STRIKE, pressure_Pa="lots"), "field 'pressure_Pa' is 'lots'"),
+    ("strike negative", with_(STRIKE, gap_m=-0.03), "field 'gap_m' is -0.03"),
+    ("strike zero", with_(STRIKE, voltage_V=0), "field 'voltage_V' is 0"),
+    ("strike huge", with_(STRIKE, pressure_Pa=1e30), "field 'pressure_Pa' is 1e+30, outside"),
+    ("strike volts huge", with_(STRIKE, voltage_V=1e12), "field 'voltage_V' is 1e+12, outside"),
+    ("strike missing", with_(STRIKE, voltage_V=...), "strike has no 'voltage_V'"),
+    ("strike temperature", with_(STRIKE, gas_temperature_K="warm"), "field 'gas_temperature_K' is 'warm'"),
+    ("strike note list", with_(STRIKE, note=["x"]), "field 'note' is"),
+    ("flag level", {"kind": "flag", "t_unix": T, "code": "x", "level": "meh", "change": "raised"}, "field 'level'"),
+    ("flag change", {"kind": "flag", "t_unix": T, "code": "x", "level": "ok", "change": "maybe"}, "field 'change'"),
+    ("flag no code", {"kind": "flag", "t_unix": T, "level": "ok", "change": "raised"}, "flag has no 'code'"),
+    ("event count", {"kind": "event", "t_unix": T, "event": "counts", "garbled": -3}, "field 'garbled' is -3"),
+    ("event count float", {"kind": "event", "t_unix": T, "event": "counts", "readings": 1.5}, "field 'readings'"),
+    ("event missing", {"kind": "event", "t_unix": T}, "event has no 'event'"),
+    ("entry accepted", {"kind": "entry", "t_unix": T, "field": "gap", "accepted": "yes"}, "field 'accepted'"),
+    ("forecast strikes", {"kind": "forecast", "t_unix": T, "strikes": "maybe"}, "field 'strikes'"),
+    ("forecast volts", {"kind": "forecast", "t_unix": T, "breakdown_V": "high"}, "field 'breakdown_V'"),
+    ("array", [1, 2, 3], "not a JSON object"),
+    ("number", 42, "not a JSON object"),
+    ("string", '"reading"', "not a JSON object"),
+    ("NaN token", '{"kind":"reading","t_unix":NaN}', "NaN is not a number JSON allows"),
+    ("Infinity token", '{"kind":"strike","t_unix":1.8e9,"pressure_Pa":Infinity}', "Infinity is not a number"),
+    ("truncated middle", '{"kind":"reading","t_unix":18', "not JSON"),
+    ("trailing garbage", json.dumps(READING) + " trailing", "not JSON"),
+]
+
+
+def _materialise(tmp_path, argv, files):
+    for name, content in files.items():
+        path = tmp_path / name
+        path.parent.mkdir(parents=True, exist_ok=True)
+        (path.write_bytes if isinstance(content, bytes) else path.write_text)(content)
+    return [a.replace("{tmp}", str(tmp_path)) for a in argv]
+
+
+def _one_line(err: str) -> None:
+    assert err.count("\n") == 1 and err.startswith("strikeline"), err
+    assert "Traceback" not in err and "internal error" not in err, err
+
+
+@pytest.mark.parametrize(("argv", "files", "status", "needle"), [c[1:] for c in CLI], ids=[c[0] for c in CLI])
+def test_command_line(tmp_path, capsys, argv, files, status, needle):
+    code = cli.main(_materialise(tmp_path, argv, files))
+    out, err = capsys.readouterr()
+    assert code == status, err
+    _one_line(err)
+    assert needle in err, err
+
+
+@pytest.mark.parametrize(("text", "needle"), [c[1:] for c in PROFILES], ids=[c[0] for c in PROFILES])
+def test_bench_profile(tmp_path, capsys, text, needle):
+    (tmp_path / "b.toml").write_text(text)
+    code = cli.main(["strike", "--bench", str(tmp_path / "b.toml"), "--pressure", "20 Pa"])
+    out, err = capsys.readouterr()
+    assert code == 2 and out == ""
+    _one_line(err)
+    assert needle in err and err.count(str(tmp_path / "b.toml")) == 1, err
+
+
+@pytest.mark.parametrize(("record", "needle"), [c[1:] for c in RECORDS], ids=[c[0] for c in RECORDS])
+def test_logbook_record_is_skipped_and_named(tmp_path, capsys, record, needle):
+    path = tmp_path / "l.jsonl"
+    path.write_text(logbook(record))
+    csv = tmp_path / "s.csv"
+    code = cli.main(["log", str(path), "--strikes", str(csv), "--json"])
+    out, err = capsys.readouterr()
+    assert code == 0, err
+    summary = json.loads(out)  # valid JSON: never NaN
+    assert [s["line"] for s in summary["skipped"]] == [3]
+    assert needle in summary["skipped"][0]["why"], summary["skipped"]
+    assert csv.read_text().splitlines()[1] == "20.0,0.03,450.0"  # the good mark, and only good ones
+    assert len(csv.read_text().splitlines()) == 2
+    assert err.count("\n") == 1 and "1 strike marks written" in err
+
+
+def test_port_that_cannot_open_exits_non_zero(tmp_path, capsys):
+    bench = tmp_path / "b.toml"
+    bench.write_text(BENCH + PORT.replace("loop://", str(tmp_path / "no-such-tty")))
+    for argv in (["gauge", "--seconds", "0.5"], ["record", "--seconds", "0.5", "--log", str(tmp_path / "l.jsonl")]):
+        code = cli.main([argv[0], "--bench", str(bench), *argv[1:]])
+        out, err = capsys.readouterr()
+        assert code == 1
+        assert err.splitlines()[-1].startswith(f"strikeline {argv[0]}: no instrument answered in")
+        assert "Traceback" not in err
+
+
+@pytest.mark.parametrize(
+    "argv",
+    [
+        ["strike", "--bench", "demo"],
+        ["strike", "--bench", "demo", "--json"],
+        ["curve", "--bench", "demo"],
+        ["gases"],
+        ["gases", "--json"],
+    ],
+)
+def test_output_to_a_full_device_is_one_line(argv):
+    with open("/dev/full", "w") as full:
+        r = subprocess.run(
+            [sys.executable, "-m", "strikeline.tui.cli", *argv], stdout=full, stderr=subprocess.PIPE, text=True
+        )
+    assert r.returncode == 2
+    _one_line(r.stderr)
+    assert "standard output cannot be written (No space left on device)" in r.stderr
+
+
+def test_a_closed_pipe_is_one_line():
+    p = subprocess.Popen(
+        [sys.executable, "-m", "strikeline.tui.cli", "curve", "--bench", "demo", "--points", "100000"],
+        stdout=subprocess.PIPE,
+        stderr=subprocess.PIPE,
+        text=True,
+    )
+    p.stdout.readline()
+    p.stdout.close()  # the reader had enough, like `| head -1`
+    err = p.stderr.read()
+    p.stderr.close()
+    assert p.wait(30) == 0
+    _one_line(err)
+    assert "broken pipe" in err
+
+
+def test_there_are_at_least_150_hostile_cases():
+    assert len(CLI) + len(PROFILES) + len(RECORDS) + 5 + 2 >= 150
