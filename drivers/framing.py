@@ -16,7 +16,15 @@ from .reading import Reading, Status
 from .specs import Analog, ChannelSpec, PortSpec
 from .stats import PortStats
 
-__all__ = ["Analog", "ChannelParser", "ChannelSpec", "LineFramer", "PortSpec", "RejectedLine"]
+__all__ = [
+    "Analog",
+    "ChannelParser",
+    "ChannelSpec",
+    "LineFramer",
+    "PortSpec",
+    "RejectedLine",
+    "channel_reading",
+]
 
 
 class LineFramer:
@@ -93,41 +101,62 @@ class ChannelParser:
         if m is None:
             raise RejectedLine("does not match the channel's pattern")
         groups = m.groupdict()
-
-        def reading(value: float | None, status: Status) -> Reading:
-            return Reading(s.name, s.quantity, value, status, text, t_mono, t_wall, self.source)
-
-        if groups.get("status") is not None and s.status_map:
-            st = s.status_map.get(groups["status"].strip().casefold())
-            if st is None:
-                raise RejectedLine(f"unknown status {groups['status']!r}")
-            if st is not Status.OK:
-                return reading(None, st)
         try:
             number = float(groups["value"])
         except (TypeError, ValueError):
-            raise RejectedLine("value is not a number") from None
-        if not math.isfinite(number):
-            raise RejectedLine("value is not finite")
-        number = number * s.scale + s.offset
-        if s.analog is not None:
-            exponent = (number - s.analog.c) / s.analog.k
-            if not -30 < exponent < 30:
-                raise RejectedLine("analog voltage outside the characteristic")
-            value = 10.0**exponent * s.analog.unit_factor
-        else:
-            factor = s.unit_factor
-            if groups.get("unit") is not None:
-                factor = s.units.get(groups["unit"].strip().casefold())
-                if factor is None:
-                    raise RejectedLine(f"unknown unit {groups['unit']!r}")
+            number = None
+        return channel_reading(s, number, groups.get("status"), groups.get("unit"), text, t_mono, t_wall, self.source)
+
+
+def channel_reading(
+    s: ChannelSpec,
+    number: float | None,
+    status: str | None,
+    unit: str | None,
+    raw: str,
+    t_mono: float,
+    t_wall: float,
+    source: str,
+) -> Reading:
+    """The Reading a channel's answer makes, whatever the protocol it came by: the status text
+    looked up in the channel's status map (a status other than ok needs no number), then scale
+    and offset, the analog characteristic or the unit, and the range limits. ``number`` None means
+    the answer held no number. Raises :class:`RejectedLine` for what is not a reading."""
+
+    def reading(value: float | None, st: Status) -> Reading:
+        return Reading(s.name, s.quantity, value, st, raw, t_mono, t_wall, source)
+
+    if status is not None and s.status_map:
+        st = s.status_map.get(status.strip().casefold())
+        if st is None:
+            raise RejectedLine(f"unknown status {status!r}")
+        if st is not Status.OK:
+            return reading(None, st)
+    if number is None:
+        raise RejectedLine("value is not a number")
+    if not math.isfinite(number):
+        raise RejectedLine("value is not finite")
+    number = number * s.scale + s.offset
+    if s.quantity == "state":
+        return reading(number, Status.OK)  # a state is its own word (the channel's labels)
+    if s.analog is not None:
+        exponent = (number - s.analog.c) / s.analog.k
+        if not -30 < exponent < 30:
+            raise RejectedLine("analog voltage outside the characteristic")
+        value = 10.0**exponent * s.analog.unit_factor
+    else:
+        factor = s.unit_factor
+        if unit is not None:
+            factor = s.units.get(unit.strip().casefold())
             if factor is None:
-                raise RejectedLine("no unit")
-            value = number * factor
-        if s.over_above is not None and value >= s.over_above:
-            return reading(None, Status.OVER_RANGE)
-        if s.under_below is not None and value <= s.under_below:
-            return reading(None, Status.UNDER_RANGE)
-        if s.quantity == "pressure" and value <= 0:
-            raise RejectedLine("pressure is not above zero")
-        return reading(value, Status.OK)
+                raise RejectedLine(f"unknown unit {unit!r}")
+        if factor is None:
+            raise RejectedLine("no unit")
+        value = number * factor
+    if s.over_above is not None and value >= s.over_above:
+        return reading(None, Status.OVER_RANGE)
+    if s.under_below is not None and value <= s.under_below:
+        return reading(None, Status.UNDER_RANGE)
+    if s.quantity == "pressure" and value <= 0:
+        raise RejectedLine("pressure is not above zero")
+    return reading(value, Status.OK)

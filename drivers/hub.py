@@ -14,11 +14,11 @@ from typing import TYPE_CHECKING
 from .reading import Reading
 from .stats import PortStats, trouble_text
 
-if TYPE_CHECKING:  # pyserial loads only when instruments are started
-    from .port import Emit, Event
+if TYPE_CHECKING:  # pyserial, pymodbus and pyvisa load only when instruments are started
+    from .reader import Emit, Event
     from .specs import PortSpec
 
-__all__ = ["Instruments", "Latest", "fault_summary"]
+__all__ = ["Instruments", "Latest", "fault_summary", "reader_for"]
 
 
 class Latest:
@@ -59,9 +59,7 @@ class Instruments:
         clock: Callable[[], float] = time.monotonic,
         wall: Callable[[], float] = time.time,
     ):
-        from .port import PortReader
-
-        self.readers = [PortReader(p, emit, on_event, clock=clock, wall=wall) for p in ports]
+        self.readers = [reader_for(p)(p, emit, on_event, clock=clock, wall=wall) for p in ports]
 
     def start(self) -> None:
         for r in self.readers:
@@ -76,6 +74,23 @@ class Instruments:
     def stats(self) -> dict[str, PortStats]:
         """What each port delivered and what went wrong, by port name."""
         return {r.spec.name: r.stats for r in self.readers}
+
+
+def reader_for(spec) -> type:
+    """The reader class for a port spec (the port libraries load here, when instruments start)."""
+    from .specs import ModbusPortSpec, ScpiPortSpec
+
+    if isinstance(spec, ModbusPortSpec):
+        from .modbus import ModbusReader
+
+        return ModbusReader
+    if isinstance(spec, ScpiPortSpec):
+        from .visa import ScpiReader
+
+        return ScpiReader
+    from .port import PortReader
+
+    return PortReader
 
 
 def fault_summary(stats: dict[str, PortStats]) -> list[str]:

@@ -7,8 +7,9 @@ from enum import StrEnum
 
 __all__ = ["QUANTITIES", "Reading", "Status"]
 
-QUANTITIES = ("pressure", "voltage", "current")
-"""What a channel can measure; the value is in Pa, V or A."""
+QUANTITIES = ("pressure", "voltage", "current", "flow", "state")
+"""What a channel can measure; the value is in Pa, V, A, Pa m^3/s (a gas flow) or, for a state
+such as an interlock bit, the number the instrument gave (its words come from the profile)."""
 
 
 class Status(StrEnum):
@@ -30,7 +31,7 @@ class Reading:
     channel: str
     """The channel's name in the bench profile."""
     quantity: str
-    """"pressure", "voltage" or "current"."""
+    """One of :data:`QUANTITIES`."""
     value: float | None
     """SI value as the instrument indicated it (Pa, V, A); None when there is none to trust."""
     status: Status

@@ -24,6 +24,8 @@ class PortStats:
     """Queries with no complete answer in time."""
     overflow: int = 0
     """Runs of bytes longer than a line may be, dropped."""
+    exceptions: int = 0
+    """Exception responses: the device refused a request (Modbus)."""
     faults: int = 0
     """Port errors (lost, missing, closed)."""
     reconnects: int = 0
@@ -32,7 +34,7 @@ class PortStats:
         """The counts by the words the operator reads (``lines`` is bookkeeping, left out).
 
         >>> PortStats(readings=5, timeouts=2).counts()
-        {'readings': 5, 'garbled': 0, 'unanswered': 2, 'overlong': 0, 'faults': 0, 'reconnects': 0}
+        {'readings': 5, 'garbled': 0, 'unanswered': 2, 'overlong': 0, 'exceptions': 0, 'faults': 0, 'reconnects': 0}
         """
         return {_WORDS.get(f.name, f.name): getattr(self, f.name) for f in fields(self) if f.name != "lines"}
 
@@ -44,7 +46,7 @@ def counts_text(port: str, stats: PortStats) -> str:
     """Every count of one port, e.g. "controller: 40 readings, 0 garbled, 1 unanswered, ...".
 
     >>> counts_text("ctl", PortStats(readings=3))
-    'ctl: 3 readings, 0 garbled, 0 unanswered, 0 overlong, 0 faults, 0 reconnects'
+    'ctl: 3 readings, 0 garbled, 0 unanswered, 0 overlong, 0 exceptions, 0 faults, 0 reconnects'
     """
     return f"{port}: " + ", ".join(f"{n} {word}" for word, n in stats.counts().items())
 

@@ -57,6 +57,7 @@ LIMITS: dict[str, Limit] = {
     "duration": Limit("time", 1e-3, 7 * 86400.0, "up to a week of unattended logging"),
     "area": Limit("area", 1e-8, 10.0, "from a pin to a large target"),
     "field": Limit("field", 1e-6, 10.0, "magnetron fields are tens of millitesla"),
+    "flow": Limit("flow", 1e-8, 10.0, "from a trickle to about 6000 slm"),
 }
 """Accepted ranges by the name of what is given (SI units)."""
 

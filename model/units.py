@@ -106,6 +106,20 @@ _KINDS: dict[str, _Kind] = {
         '"5 us", "2 ms", "10 s", "8 h"',
     ),
     "area": _Kind("area", "m2", {"m2": 1.0, "cm2": _c.centi**2, "mm2": _c.milli**2}, '"20 cm2", "0.002 m2"'),
+    # Gas flow as throughput (pressure times volume per time). A standard cubic centimetre is
+    # taken at 0 C and 101325 Pa (common practice; some controllers use 20 C: set scale then).
+    "flow": _Kind(
+        "flow",
+        "Pa m3/s",
+        {
+            "Pa m3/s": 1.0,
+            "sccm": _c.atm * _c.centi**3 / 60.0,
+            "slm": _c.atm * _c.milli / 60.0,
+            "mbar l/s": _c.bar * _c.milli * _c.milli,
+            "Torr l/s": _c.torr * _c.milli,
+        },
+        '"20 sccm", "0.5 slm", "0.03 Pa m3/s"',
+    ),
 }
 KINDS: tuple[str, ...] = tuple(_KINDS)
 

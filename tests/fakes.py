@@ -150,3 +150,43 @@ class TcpInstrument:
                 pass
             c.close()
         self.server.close()
+
+
+class NullModem:
+    """Two pseudo-terminals wired to each other, like two serial ports and a null-modem cable:
+    bytes written to ``a`` arrive at ``b`` and back. Each side has a device path to open."""
+
+    def __init__(self):
+        self._fds = []
+        self.paths = []
+        for _ in range(2):
+            master, slave = os.openpty()
+            tty.setraw(master)
+            tty.setraw(slave)
+            self._fds.append((master, slave))
+            self.paths.append(os.ttyname(slave))
+        self.a, self.b = self.paths
+        self._stop = threading.Event()
+        self._thread = threading.Thread(target=self._run, daemon=True)
+        self._thread.start()
+
+    def _run(self) -> None:
+        (ma, _), (mb, _) = self._fds
+        peer = {ma: mb, mb: ma}
+        while not self._stop.is_set():
+            try:
+                ready, _, _ = select.select([ma, mb], [], [], 0.05)
+                for fd in ready:
+                    os.write(peer[fd], os.read(fd, 4096))
+            except OSError:
+                return
+
+    def close(self) -> None:
+        self._stop.set()
+        self._thread.join(2)
+        for pair in self._fds:
+            for fd in pair:
+                try:
+                    os.close(fd)
+                except OSError:
+                    pass

@@ -50,9 +50,10 @@ def test_profile_override_and_missing_factor():
 
 def test_gauge_verb_reads_the_demo_headless(capsys):
     assert cli.main(["gauge", "--bench", "demo", "--samples", "4", "--json"]) == 0
-    lines = capsys.readouterr().out.strip().splitlines()
-    assert len(lines) == 4
-    rows = [json.loads(x) for x in lines]
+    every = [json.loads(x) for x in capsys.readouterr().out.strip().splitlines()]
+    rows = [r for r in every if r["kind"] == "reading"]
+    assert len(rows) == 4
+    assert [r["port"] for r in every if r["kind"] == "counts"] == ["controller"]  # the port's counts come last
     assert {"channel", "quantity", "value_si", "indicated", "status", "t"} <= rows[0].keys()
     chamber = next(r for r in rows if r["channel"] == "chamber")
     assert chamber["value_si"] == pytest.approx(chamber["indicated"] * 1.6)  # thermal gauge in argon

@@ -298,6 +298,16 @@ CLI = [
 
 # Bench files: one bad field each, read through `strike --bench` (so a profile and the command
 # line are held to the same limits and messages).
+MODBUS = (
+    '[[port]]\nprotocol = "modbus"\ntransport = "tcp"\nhost = "192.0.2.20"\nunit_id = 3\n'
+    '[[port.channel]]\nname = "p"\nquantity = "pressure"\ntable = "input"\naddress = 0\ntype = "float32"\n'
+    'unit = "mbar"\n'
+)
+SCPI = (
+    '[[port]]\nprotocol = "scpi"\nresource = "TCPIP::192.0.2.30::5025::SOCKET"\n'
+    '[[port.channel]]\nname = "v"\nquantity = "voltage"\nquery = "MEAS:VOLT?"\nunit = "V"\n'
+)
+
 PROFILES = [
     ("gap missing", '[bench]\ngas = "Ar"\ncathode = "Cu"\n', "[bench] gap: missing"),
     ("gap huge", BENCH.replace("30 mm", "1e9 m"), "outside 1e-06 to 10 m"),

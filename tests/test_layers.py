@@ -140,9 +140,10 @@ def test_model_loads_neither_textual_nor_serial(module):
 
 
 def test_profiles_load_no_port_library():
-    # The loader builds port specs without pyserial: ports open only when instruments start.
+    # The loader builds port specs without pyserial, pymodbus or pyvisa: they load when ports start.
     loaded = _loaded_after_import("strikeline.profiles.loader")
-    assert not any(m == "serial" or m.startswith("serial.") for m in loaded)
+    for lib in ("serial", "pymodbus", "pyvisa"):
+        assert not any(m == lib or m.startswith(lib + ".") for m in loaded), lib
 
 
 def test_cli_start_up_defers_heavy_imports():
@@ -166,5 +167,5 @@ def test_screen_start_up_leaves_scipy_numpy_and_serial_out():
     )
     r = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=60, check=True)
     loaded = set(r.stdout.split())
-    for heavy in ("scipy", "numpy", "plotext", "serial"):
+    for heavy in ("scipy", "numpy", "plotext", "serial", "pymodbus", "pyvisa"):
         assert not any(m == heavy or m.startswith(heavy + ".") for m in loaded), heavy

@@ -16,7 +16,7 @@ from ..drivers.logbook import LogbookRefused
 from ..model.units import QuantityError
 from ..profiles.fields import ProfileError
 from .outputs import OutputError, StdoutGuard, silence_stdout
-from .verbs import forecast, instruments, logbook
+from .verbs import forecast, instruments, logbook, ports
 from .verbs.parser import SAFETY, UsageError, build_parser
 
 __all__ = ["SAFETY", "UsageError", "build_parser", "main"]
@@ -28,6 +28,7 @@ VERBS = [
     forecast.add_strike,
     forecast.add_curve,
     instruments.add_gauge,
+    ports.add_ports,
     instruments.add_record,
     logbook.add_fit,
     logbook.add_log,

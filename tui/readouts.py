@@ -11,7 +11,7 @@ from typing import TYPE_CHECKING
 from ..drivers.reading import Reading
 from ..model.units import convert, format_value
 from .session import View
-from .text import UNIT_SYSTEMS, amps, pd_text
+from .text import UNIT_SYSTEMS, amps, pd_text, state_word
 
 if TYPE_CHECKING:
     from ..model.forecast import Forecast
@@ -112,8 +112,15 @@ def readout_lines(
     return rows
 
 
-def channel_line(readings: dict[str, Reading], paused: bool, manual: bool, replay: bool) -> list[tuple[str, str]]:
-    """(text, style) pieces of the instrument status bar."""
+def channel_line(
+    readings: dict[str, Reading],
+    paused: bool,
+    manual: bool,
+    replay: bool,
+    labels: dict[str, dict[int, str]] | None = None,
+) -> list[tuple[str, str]]:
+    """(text, style) pieces of the instrument status bar; a state channel (an interlock) in its
+    own words from ``labels``."""
     parts: list[tuple[str, str]] = []
     if paused:
         parts.append(("PAUSED", "warn"))
@@ -123,7 +130,9 @@ def channel_line(readings: dict[str, Reading], paused: bool, manual: bool, repla
         parts.append(("pressure MANUAL", ""))
     for name, r in readings.items():
         word = _STATUS_WORD.get(str(r.status), str(r.status).upper())
-        if word == "LIVE":
+        if word == "LIVE" and r.quantity == "state":
+            word = state_word(r.value, (labels or {}).get(name, {})).upper()
+        elif word == "LIVE":
             word = {"simulated": "SIM", "replay": "REPLAY", "manual": "MANUAL"}.get(r.source, word)
         style = "" if str(r.status) == "ok" else "bad"
         parts.append((f"{name} {word}", style))

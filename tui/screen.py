@@ -164,6 +164,8 @@ class StrikelineApp(KeyActions, App[None]):
 
     def on_unmount(self) -> None:
         self.leave()
+        if hasattr(self.source, "stats"):
+            self.session.log_counts(self.source.stats())
         if self.session.logbook is not None:
             self.session.logbook.close()
 
@@ -249,7 +251,7 @@ class StrikelineApp(KeyActions, App[None]):
         readings = self.session.latest.all(self.clock())
         t = Text()
         for i, (text, style) in enumerate(
-            channel_line(readings, self.paused, not self.session.use_gauge, self.mode == "replay")
+            channel_line(readings, self.paused, not self.session.use_gauge, self.mode == "replay", self.session.labels)
         ):
             if i:
                 t.append(" | ")

@@ -34,6 +34,7 @@ _READING_BOUNDS = {
     "pressure": (LIMITS["pressure"].low, LIMITS["pressure"].high),
     "voltage": (-LIMITS["voltage"].high, LIMITS["voltage"].high),  # a read-back may be 0 or negative
     "current": (-LIMITS["current"].high, LIMITS["current"].high),
+    "flow": (-LIMITS["flow"].high, LIMITS["flow"].high),
 }
 """A reading outside these (SI) is far out of any instrument's range: skipped, and said so once."""
 
@@ -100,6 +101,8 @@ class Session:
         channels = [c for p in profile.ports for c in p.channels]
         self.latest = Latest({c.name: c.stale_after for c in channels})
         self.channels = {c.name: c for c in channels}
+        self.labels = {c.name: c.labels for c in channels if c.labels}
+        """Words of each state channel's values (an interlock: open, closed)."""
         self.pressure_channel = None if manual else next((c.name for c in channels if c.quantity == "pressure"), None)
         self.use_gauge = self.pressure_channel is not None
         self.values: dict[str, float | None] = {
@@ -151,7 +154,7 @@ class Session:
             return r, None
         lo, hi = bounds
         status = Status.OVER_RANGE if r.value > hi else Status.UNDER_RANGE
-        unit = {"pressure": "Pa", "voltage": "V", "current": "A"}[r.quantity]
+        unit = {"pressure": "Pa", "voltage": "V", "current": "A", "flow": "Pa m3/s"}[r.quantity]
         why = f"{r.value:.3g} {unit} is outside the {lo:g} to {hi:g} {unit} strikeline accepts"
         r = replace(r, value=None, status=status, raw=f"{r.raw} ({why})")
         if was_out:
@@ -169,6 +172,12 @@ class Session:
         """A connection or fault on a port."""
         if self.logbook is not None:
             self.logbook.write("event", port=port, event=kind, message=message)
+
+    def log_counts(self, stats: dict) -> None:
+        """Each port's counts (readings and every kind of fault) as a ``counts`` event, at the end."""
+        if self.logbook is not None:
+            for port, st in stats.items():
+                self.logbook.write("event", port=port, event="counts", message="", **st.counts())
 
     def set_value(self, name: str, text: str) -> str | None:
         """Set ``name`` from typed ``text``; on bad input keep the old value and return why."""

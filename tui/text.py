@@ -148,7 +148,18 @@ def forecast_text(f: Forecast, system: str = "SI") -> str:
     return "\n".join(lines)
 
 
-_READING_UNITS = {"pressure": "Pa", "voltage": "V", "current": "mA"}
+_READING_UNITS = {"pressure": "Pa", "voltage": "V", "current": "mA", "flow": "sccm"}
+
+
+def state_word(value: float | None, labels: dict[int, str]) -> str:
+    """The word a state channel's value stands for ("closed"), or the number where none is given.
+
+    >>> state_word(1.0, {0: "open", 1: "closed"}), state_word(7.0, {0: "open"}), state_word(None, {})
+    ('closed', '7', '-')
+    """
+    if value is None:
+        return "-"
+    return labels.get(int(value), f"{value:g}") if float(value).is_integer() else f"{value:g}"
 
 
 def corrected_value(r, corr) -> tuple[float | None, bool]:
@@ -160,10 +171,11 @@ def corrected_value(r, corr) -> tuple[float | None, bool]:
     return correct(r.value, corr)
 
 
-def reading_json(r, corr=None) -> dict[str, Any]:
-    """One reading as ``strikeline gauge --json`` prints it (SI)."""
+def reading_json(r, corr=None, labels: dict[int, str] | None = None) -> dict[str, Any]:
+    """One reading as ``strikeline gauge --json`` prints it (SI; a state also in words)."""
     value, approx = corrected_value(r, corr)
-    return {
+    out = {
+        "kind": "reading",
         "channel": r.channel,
         "quantity": r.quantity,
         "value_si": value,
@@ -175,13 +187,19 @@ def reading_json(r, corr=None) -> dict[str, Any]:
         "raw": r.raw,
         "t": iso_utc(r.t_wall),
     }
+    if r.quantity == "state":
+        out["state"] = None if r.value is None else state_word(r.value, labels or {})
+    return out
 
 
-def reading_text(r, corr=None) -> str:
+def reading_text(r, corr=None, labels: dict[int, str] | None = None) -> str:
     """One reading as a line of text."""
     value, approx = corrected_value(r, corr)
+    if r.quantity == "state":
+        shown = state_word(value, labels or {}) if value is not None else str(r.status).upper()
+        return f"{iso_utc(r.t_wall)[11:23]}  {r.channel:<16} {shown:>14}  {r.status}"
     unit = _READING_UNITS[r.quantity]
-    kind = {"pressure": "pressure", "voltage": "voltage", "current": "current"}[r.quantity]
+    kind = r.quantity
     shown = format_value(value, kind, unit) if value is not None else str(r.status).upper()
     extra = ""
     if corr is not None and r.value is not None:

@@ -116,7 +116,7 @@ def measure(quick: bool = False) -> dict[str, float]:
     from dataclasses import replace
     from pathlib import Path
 
-    starts, warm, span, in_process = (1, 1.0, 2.5, 1.5) if quick else (5, 3.0, 13.0, 10.0)
+    starts, warm, span, in_process = (1, 1.0, 2.0, 1.0) if quick else (5, 3.0, 13.0, 10.0)
     with tempfile.TemporaryDirectory() as tmp:
         env = dict(
             os.environ,

@@ -3,5 +3,6 @@
 - :mod:`.parser`: the top-level parser, one-line usage errors, quantity arguments, the cautions
 - :mod:`.forecast`: ``strike``, ``curve``, ``gases``
 - :mod:`.instruments`: ``live``, ``gauge``, ``record``
+- :mod:`.ports`: ``ports``
 - :mod:`.logbook`: ``log``, ``fit``
 """

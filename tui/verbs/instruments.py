@@ -176,6 +176,7 @@ def cmd_gauge(args: argparse.Namespace) -> int:
         raise UsageError(f"strikeline gauge: bench {profile.label!r} has no [[port]] section: nothing to read")
     q: queue.Queue = queue.Queue()
     events: queue.Queue = queue.Queue()
+    labels = {c.name: c.labels for p in profile.ports for c in p.channels}
     inst = Instruments(profile.ports, q.put, lambda port, kind, msg: events.put((port, kind, msg)))
     start = time.monotonic()
     deadline = start + (args.seconds if args.seconds is not None else SILENCE_LIMIT)
@@ -197,12 +198,15 @@ def cmd_gauge(args: argparse.Namespace) -> int:
                     deadline = time.monotonic() + SILENCE_LIMIT
             corr = profile.gauges.get(r.channel)
             if args.json:
-                print_json(reading_json(r, corr), indent=None, flush=True)
+                print_json(reading_json(r, corr, labels.get(r.channel)), indent=None, flush=True)
             else:
-                print(reading_text(r, corr), flush=True)
+                print(reading_text(r, corr, labels.get(r.channel)), flush=True)
     finally:
         inst.stop()
     _print_counts(inst)
+    if args.json:  # the fault counts of each port, as the last lines
+        for port, st in inst.stats().items():
+            print_json({"kind": "counts", "port": port, **st.counts()}, indent=None)
     return _nothing_answered("gauge", answered, time.monotonic() - start)
 
 
@@ -254,8 +258,7 @@ def cmd_record(args: argparse.Namespace) -> int:
                 print(f"strikeline record: {shown_error or 'logbook writing again'}", file=sys.stderr)
     finally:
         inst.stop()
-        for port, st in inst.stats().items():
-            book.write("event", port=port, event="counts", message="", **st.counts())
+        session.log_counts(inst.stats())
         book.close()
     _print_counts(inst)
     print(f"strikeline record: {book.written} records in {path}", file=sys.stderr)
