@@ -5,7 +5,7 @@ Format ("strikeline-logbook/1"): one JSON object per line, UTF-8. Every record h
     t       ISO-8601 UTC time, e.g. "2026-12-01T09:30:00.123456Z"
     t_unix  the same as Unix seconds
     mono    seconds since the session started (monotonic clock)
-    kind    "session" (first line), "reading", "strike", "forecast", "flag", "event", "entry"
+    kind    "session" (first line), "reading", "strike", "forecast", "flag", "event", "entry", "fill"
 
 and the fields of its kind (SI units, named with them: pressure_Pa, gap_m, voltage_V...).
 ``pandas.read_json(path, lines=True)`` opens it directly.

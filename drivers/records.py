@@ -56,6 +56,10 @@ def _count(x: Any) -> bool:
     return isinstance(x, int) and not isinstance(x, bool) and x >= 0
 
 
+def _flows(x: Any) -> bool:
+    return isinstance(x, dict) and len(x) <= 16 and all(_name(k) and _number(v) and v >= 0 for k, v in x.items())
+
+
 _BOOL: Check = lambda x: isinstance(x, bool)  # noqa: E731
 _WHAT = {
     _number: "a finite number",
@@ -64,6 +68,7 @@ _WHAT = {
     _text: f"a text of at most {MAX_TEXT} characters",
     _count: "a whole number of 0 or more",
     _BOOL: "true or false",
+    _flows: "a table of up to 16 gas names and flows of 0 or more",
 }
 
 # kind -> field -> (check, required)
@@ -87,8 +92,15 @@ _FIELDS: dict[str, dict[str, tuple[Check, bool]]] = {
         "gas_temperature_K": (_optional(_positive), False),
         **{f: (_text, False) for f in ("pressure_source", "gas", "cathode", "note", "made_by")},
     },
+    "fill": {
+        "composition": (_text, True),
+        "source": (_one_of("profile", "typed", "flows"), False),
+        "flows_Pa_m3_s": (_flows, False),
+        "note": (_text, False),
+    },
     "forecast": {
         "withdrawn": (_optional(_text), False),
+        "gas": (_text, False),
         **{f: (_optional(_number), False) for f in ("pressure_Pa", "gap_m", "voltage_V", "breakdown_V", "margin_V")},
         "strikes": (_optional(_BOOL), False),
         **{f: (_optional(_text), False) for f in ("branch", "regime", "worst")},

@@ -10,6 +10,10 @@ from collections.abc import Mapping
 from dataclasses import dataclass, field
 
 __all__ = [
+    "Attachment",
+    "Component",
+    "Film",
+    "Mixture",
     "TownsendConstants",
     "UniformFieldLaw",
     "Bench",
@@ -73,6 +77,27 @@ class UniformFieldLaw:
     source: str
 
 
+@dataclass(frozen=True)
+class Attachment:
+    """Electron attachment of an electronegative gas, eta/p = k1 (E/p) + k0, in two E/p branches.
+
+    SI: eta/p in 1/(Pa m), E/p in V/(Pa m), k1 in 1/V, k0 in 1/(Pa m). Below ``switch`` the low
+    branch applies; eta is never negative, and above ``valid_high`` it is held at its value there
+    (the fit says nothing beyond its range).
+    """
+
+    k1_high: float
+    k0_high: float
+    k1_low: float
+    k0_low: float
+    switch: float
+    """E/p (V/(Pa m)) where the branches meet."""
+    valid_low: float
+    valid_high: float
+    """E/p range of the fit, V/(Pa m)."""
+    source: str
+
+
 def secondary_yield_estimate(ionisation_energy: float, work_function: float) -> float:
     """Clean-metal estimate of the ion-induced electron yield, gamma ~ 0.016 (E_iz - 2 phi).
 
@@ -107,6 +132,59 @@ class Gas:
     electron_collision_per_Pa: float
     """Electron momentum-transfer collision frequency per pressure, nu_m/p, 1/(s Pa)."""
     noble: bool
+    low_field: TownsendConstants | None = None
+    """A second A, B pair that applies below ``constants.E_over_p_low`` (a two-branch fit)."""
+    attachment: Attachment | None = None
+    """Electron attachment, for an electronegative gas (None: none)."""
+    metastable_energy: float | None = None
+    """Lowest metastable level, eV (noble gases: the energy that makes Penning mixtures)."""
+    reactive: bool = False
+    """Reacts with a sputter target to form a film (oxygen, nitrogen)."""
+
+
+@dataclass(frozen=True)
+class Component:
+    """One gas of a mixture and its mole fraction."""
+
+    gas: Gas
+    fraction: float
+
+
+@dataclass(frozen=True)
+class Mixture:
+    """A gas mixture: components with mole fractions that add up to 1, largest first.
+
+    A one-component mixture is never built: a pure gas is just its :class:`Gas` (so it keeps its
+    own numbers exactly).
+    """
+
+    components: tuple[Component, ...]
+
+    @property
+    def key(self) -> str:
+        """The composition as text, e.g. "argon:80,oxygen:20" (percent, largest first)."""
+        return ",".join(f"{c.gas.key}:{_percent(c.fraction)}" for c in self.components)
+
+    @property
+    def main(self) -> Gas:
+        """The largest component."""
+        return self.components[0].gas
+
+
+def _percent(x: float) -> str:
+    return f"{100 * x:.4g}"
+
+
+@dataclass(frozen=True)
+class Film:
+    """An insulating film a reactive process grows on the target (oxide, nitride)."""
+
+    name: str
+    eps_r: tuple[float, float]
+    """Relative permittivity, thin film (low, high)."""
+    strength: tuple[float, float]
+    """Dielectric strength, thin film, V/m (low, high)."""
+    source: str
 
 
 @dataclass(frozen=True)
@@ -256,6 +334,20 @@ class Bench:
     curve: BenchCurve | None = None
     pressure: float | None = None
     """A starting pressure (Pa) for manual use, None if the profile gives none."""
+    mixture: Mixture | None = None
+    """The gas mixture in the chamber (None: the pure gas ``gas``); ``gas`` is then its largest
+    component, whose data stand for the mixture where no mixing rule exists (glow, afterglow)."""
+    pumping_speed: float | None = None
+    """Pumping speed at the chamber, m^3/s, for the expected partial pressures flow / speed."""
+    film: Film | None = None
+    """The film a reactive process grows on the target (for charging arcs)."""
+    racetrack_fraction: float = 1.0
+    """Share of the cathode area that carries the discharge current (a magnetron's race track)."""
+
+    @property
+    def composition(self) -> str:
+        """The gas or mixture as text ("argon" or "argon:80,oxygen:20")."""
+        return self.gas.key if self.mixture is None else self.mixture.key
 
     def yield_(self) -> Yield:
         """The gamma in force: the bench override, else the cathode's for this gas."""
@@ -276,3 +368,7 @@ class OperatingPoint:
     """Applied or available voltage, V (None: breakdown only)."""
     gas_temperature: float = 293.15
     """K."""
+    flows: tuple[tuple[Gas, float], ...] = ()
+    """Gas flows, Pa m^3/s (for the expected partial pressures and the target mode)."""
+    current: float | None = None
+    """Measured discharge current, A (None: the load line's is used)."""

@@ -7,17 +7,21 @@ level, a one-line reason carrying the numbers, and the method behind it. SI in.
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 
 from . import constants as _c
-from .bench import BenchCurve, TownsendConstants, UniformFieldLaw
+from .bench import BenchCurve, Component, Gas, TownsendConstants, UniformFieldLaw
 from .results import Flag
 
 __all__ = [
+    "MIXTURE_UNCERTAINTY",
     "RAETHER_ALPHA_D",
     "STREAMER_CHECK_PD",
     "STREAMER_PD",
     "curve_flags",
     "margin_flags",
+    "mixture_flags",
+    "no_breakdown_flag",
     "streamer_flags",
     "validity_flags",
 ]
@@ -37,6 +41,94 @@ STREAMER_CHECK_PD = STREAMER_PD / 10
 holds and alpha d at the applied voltage says nothing about streamers: no flag is raised."""
 
 _CURVE_METHOD = "least-squares fit of Paschen's law to the bench's strike marks"
+MIXTURE_UNCERTAINTY = 0.10
+"""Added to the constants' relative uncertainty for a mixture or an attaching gas: linear mixing
+ignores the electron energy distribution the mixture sets, and the attachment data are borrowed
+from air (our judgement)."""
+TD_PER_V_PER_PA_M = 1.380649e-23 * 273.15 / 1e-21
+"""E/N in Td per E/p in V/(Pa m) at 0 C (N = p / k T)."""
+
+
+def mixture_flags(
+    composition: str,
+    components: Sequence[Component],
+    e_over_p: float | None,
+    critical: float | None,
+    penning: Sequence[tuple[Gas, Gas]],
+    assumptions: Sequence[str],
+) -> list[Flag]:
+    """What a mixture (or an attaching gas) adds: the mixing rule in use, Penning pairs, the
+    attachment limit, and gases whose data are used outside their fitted E/p range."""
+    flags: list[Flag] = []
+    if len(components) > 1:
+        flags.append(
+            Flag(
+                "linear_mixing",
+                "ok",
+                f"{composition}: coefficients mixed by mole fraction; the breakdown band is widened by "
+                f"{MIXTURE_UNCERTAINTY:.0%} for it",
+                "; ".join(assumptions),
+            )
+        )
+    for big, small in penning:
+        flags.append(
+            Flag(
+                "penning",
+                "watch",
+                f"{big.key} with {small.key} is a Penning mixture: {big.key} metastables "
+                f"({big.metastable_energy:g} eV) ionise {small.key} ({small.ionisation_energy:g} eV), so it breaks "
+                "down well below this forecast; record strikes and fit this bench's own curve (strikeline fit)",
+                "Penning ionisation: a metastable level above the other gas's ionisation energy "
+                "(NIST levels, from memory)",
+            )
+        )
+    if critical is not None:
+        td = critical * TD_PER_V_PER_PA_M
+        near = e_over_p is not None and e_over_p < 1.3 * critical
+        flags.append(
+            Flag(
+                "attachment_limit",
+                "watch" if near else "ok",
+                f"electron attachment: below E/N {td:.0f} Td (alpha = eta) electrons attach faster than they multiply"
+                + (
+                    f"; breakdown here needs {e_over_p * TD_PER_V_PER_PA_M:.0f} Td, close to that limit: a long gap "
+                    "breaks down near the limit field whatever its length"
+                    if near
+                    else ""
+                ),
+                "Townsend criterion with attachment, gamma alpha/(alpha - eta) (exp((alpha - eta) d) - 1) = 1",
+            )
+        )
+    if e_over_p is not None:
+        outside = [c.gas for c in components if c.fraction >= 0.05 and not _inside(c.gas, e_over_p)]
+        if outside:
+            flags.append(
+                Flag(
+                    "outside_fitted_range",
+                    "watch",
+                    f"E/p at breakdown {e_over_p / PER_CM_TORR:.0f} V/(cm Torr) is outside the range fitted for "
+                    f"{', '.join(g.key for g in outside)}: breakdown voltage extrapolated",
+                    "; ".join(g.constants.source for g in outside),
+                )
+            )
+    return flags
+
+
+def _inside(gas: Gas, y: float) -> bool:
+    low = gas.low_field.E_over_p_low if gas.low_field is not None else gas.constants.E_over_p_low
+    return low <= y <= gas.constants.E_over_p_high
+
+
+def no_breakdown_flag(rpd: float, pd0: float, raise_to: float) -> Flag:
+    """No voltage breaks the gap down: ``rpd`` (Pa m) is at or left of the asymptote ``pd0``;
+    ``raise_to`` is the pressure (Pa) above which this gap can break down."""
+    return Flag(
+        "no_breakdown",
+        "watch",
+        f"pd {rpd / TORR_CM:.3g} Torr cm is at or left of the asymptote {pd0 / TORR_CM:.3g} Torr cm: "
+        f"no voltage breaks this gap down; raise the pressure above {raise_to:.3g} Pa",
+        "Paschen's law, Townsend criterion",
+    )
 
 
 def validity_flags(
@@ -57,15 +149,7 @@ def validity_flags(
     """
     flags: list[Flag] = []
     if vb is None:
-        flags.append(
-            Flag(
-                "no_breakdown",
-                "watch",
-                f"pd {rpd / TORR_CM:.3g} Torr cm is at or left of the asymptote {pd0 / TORR_CM:.3g} Torr cm: "
-                f"no voltage breaks this gap down; raise the pressure above {raise_to:.3g} Pa",
-                "Paschen's law, Townsend criterion",
-            )
-        )
+        flags.append(no_breakdown_flag(rpd, pd0, raise_to))
     elif weight < 1 and e_over_p is not None and not (c.E_over_p_low <= e_over_p <= c.E_over_p_high):
         flags.append(
             Flag(
@@ -139,6 +223,11 @@ def margin_flags(
         method = "bench curve and its 95 % prediction band"
     elif law == "paschen":
         method = f"Paschen's law; V_b band from the gamma range and +/-{u:.0%} for the constants"
+    elif law == "mixture":
+        method = (
+            f"Townsend criterion with attachment, linear mixing; V_b band from the gamma range and +/-{u:.0%} "
+            "for the constants and the mixing"
+        )
     else:
         method = f"uniform-field law for air, +/-{u:.0%}"
     lo, hi = band

@@ -9,17 +9,33 @@ Pure: no files, clocks or I/O; SI in and out.
 
 from __future__ import annotations
 
+import math
 from dataclasses import replace
 from typing import Any
 
 import numpy as np
 
 from . import constants as _c
-from . import paschen, townsend
+from . import mixture as mx
+from . import townsend
 from .afterglow import afterglow_between_pulses
 from .bench import Bench, BenchCurve, OperatingPoint, Yield
+from .breakdown import breakdown_law, solved_mixture
 from .calibration import prediction_band
-from .flags import RAETHER_ALPHA_D, STREAMER_CHECK_PD, curve_flags, margin_flags, streamer_flags, validity_flags
+from .composition import same_composition
+from .flags import (
+    MIXTURE_UNCERTAINTY,
+    RAETHER_ALPHA_D,
+    STREAMER_CHECK_PD,
+    TD_PER_V_PER_PA_M,
+    curve_flags,
+    margin_flags,
+    mixture_flags,
+    no_breakdown_flag,
+    streamer_flags,
+    validity_flags,
+)
+from .reactive import charging_flags, target_flags, target_mode
 from .regime import glow_after_ignition
 from .results import LEVELS, Afterglow, Flag, Forecast, StrayResult, finite_or_none
 from .stray import left_branch_flags, stray_flags, stray_gaps
@@ -34,7 +50,6 @@ __all__ = [
     "Flag",
     "Forecast",
     "StrayResult",
-    "curve",
     "effective_pressure",
     "forecast",
     "law_name",
@@ -52,18 +67,13 @@ UNIFORM_FIELD_UNCERTAINTY = 0.05
 
 
 def law_name(weight: float) -> str:
-    """Which law a V_b came from, given the uniform-field law's weight: "paschen", "blend" or
-    "uniform-field".
+    """Which law a pure gas's V_b came from, given the uniform-field law's weight: "paschen", "blend"
+    or "uniform-field" (a mixture or an attaching gas: "mixture").
 
     >>> law_name(0.0), law_name(0.3), law_name(1.0)
     ('paschen', 'blend', 'uniform-field')
     """
     return "paschen" if weight == 0 else ("uniform-field" if weight >= 1 else "blend")
-
-
-def _breakdown(rpd: float, bench: Bench, gamma: float) -> tuple[float | None, float]:
-    v, w = paschen.breakdown_voltage_with_law(rpd, bench.gas.constants, gamma, bench.gas.law)
-    return finite_or_none(v), float(w)
 
 
 def effective_pressure(p, T: float, bench: Bench):
@@ -80,7 +90,9 @@ def effective_pressure(p, T: float, bench: Bench):
         return p, None
     omega = _c.e * bench.magnetic_field / _c.m_e
     p = np.asarray(p, dtype=float)
-    nu = bench.gas.electron_collision_per_Pa * p * bench.gas.constants.reference_temperature / T
+    parts = [(c.fraction, c.gas) for c in bench.mixture.components] if bench.mixture else [(1.0, bench.gas)]
+    nu_per_p = sum(x * g.electron_collision_per_Pa for x, g in parts)  # collision frequencies add by fraction
+    nu = nu_per_p * p * bench.gas.constants.reference_temperature / T
     hall = omega / nu
     p_eff = p * np.sqrt(1.0 + hall * hall)
     return (float(p_eff), float(hall)) if p_eff.ndim == 0 else (p_eff, hall)
@@ -88,16 +100,19 @@ def effective_pressure(p, T: float, bench: Bench):
 
 def with_bench_curve(bench: Bench) -> tuple[Bench, BenchCurve | None]:
     """The bench with its fitted curve's A, B, gamma in place of the textbook ones, where the
-    curve was fitted for this gas and cathode."""
+    curve was fitted for this gas (or a mixture of the same gases within
+    :data:`.composition.SAME_WITHIN`) and cathode: Paschen's law with the fitted constants then stands
+    for the whole gas fill."""
     cv = bench.curve
-    if cv is None or cv.gas != bench.gas.key or cv.cathode != bench.cathode.key:
+    if cv is None or cv.cathode != bench.cathode.key or not same_composition(cv.gas, bench.composition):
         return bench, None
     source = f"bench curve fitted {cv.fitted_on} from {cv.n_points} strikes (rms {cv.rms_residual:.0f} V)"
     c = replace(bench.gas.constants, A=cv.A, B=cv.B, source=source)
-    return replace(bench, gas=replace(bench.gas, constants=c), gamma=cv.gamma), cv
+    gas = replace(bench.gas, constants=c, low_field=None, attachment=None)
+    return replace(bench, gas=gas, mixture=None, gamma=cv.gamma), cv
 
 
-def _band(rpd, bench, y, hall, weight, cv) -> tuple[tuple[float | None, float | None], str, float | None]:
+def _band(rpd, bench, law, y, hall, weight, cv, mixed) -> tuple[tuple[float | None, float | None], str, float | None]:
     """V_b's uncertainty band (V), what it is made of, and the constants' relative uncertainty (None
     where a bench curve's prediction band stands in)."""
     if cv is not None and weight < 0.5:
@@ -109,10 +124,28 @@ def _band(rpd, bench, y, hall, weight, cv) -> tuple[tuple[float | None, float | 
         u = UNIFORM_FIELD_UNCERTAINTY
     else:
         u = TEXTBOOK_UNCERTAINTY
-    v_lo, _ = _breakdown(rpd, bench, y.high)
-    v_hi, _ = _breakdown(rpd, bench, y.low)
+    if mixed:
+        u += MIXTURE_UNCERTAINTY
+        v_lo = finite_or_none(breakdown_law(bench, which="high").voltage(rpd)[0])
+        v_hi = finite_or_none(breakdown_law(bench, which="low").voltage(rpd)[0])
+    else:
+        v_lo = finite_or_none(law.with_gamma(y.high).voltage(rpd)[0])
+        v_hi = finite_or_none(law.with_gamma(y.low).voltage(rpd)[0])
     band = (None if v_lo is None else v_lo * (1 - u), None if v_hi is None else v_hi * (1 + u))
-    return band, f"gamma range and +/-{u:.0%} for the constants", u
+    return band, f"gamma range and +/-{u:.0%} for the constants" + (" and mixing" if mixed else ""), u
+
+
+def _yield(bench: Bench, law, cv: BenchCurve | None, mix) -> Yield:
+    if cv is not None:
+        spread = cv.t_quantile * cv.gamma_sigma
+        return Yield(cv.gamma, max(cv.gamma - spread, 1e-6), min(cv.gamma + spread, 1.0), law.constants.source)
+    if mix is None or len(mix.components) == 1:
+        return bench.yield_()
+    lows = breakdown_law(bench, which="low").gammas
+    highs = breakdown_law(bench, which="high").gammas
+    return Yield(
+        law.gamma, min(lows), max(highs), "each gas's gamma on this cathode, weighted by its share of the ionisation"
+    )
 
 
 def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
@@ -121,26 +154,26 @@ def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
     The voltage considered is ``point.voltage``, else the bench supply's open-circuit
     voltage, else none (breakdown only). A bench curve fitted for this gas and cathode
     replaces the textbook constants, and its prediction band replaces their uncertainty.
+    A mixture (or an attaching gas) is solved by linear mixing with attachment.
     """
     bench, cv = with_bench_curve(bench)
     gas = bench.gas
-    c = gas.constants
-    y = bench.yield_()
-    if cv is not None:
-        spread = cv.t_quantile * cv.gamma_sigma
-        y = Yield(cv.gamma, max(cv.gamma - spread, 1e-6), min(cv.gamma + spread, 1.0), c.source)
+    mix = solved_mixture(bench)
+    law = breakdown_law(bench)
+    y = _yield(bench, law, cv, mix)
     gamma = y.value
     T = point.gas_temperature
-    scale = c.reference_temperature / T  # reduced pd = pd * scale
+    scale = law.reference_temperature / T  # reduced pd = pd * scale
     p_eff, hall = effective_pressure(point.pressure, T, bench)
     to_pressure = 1.0 / scale / point.gap * (point.pressure / p_eff)  # reduced pd -> pressure at this gap
     rpd = p_eff * point.gap * scale
-    vb, weight = _breakdown(rpd, bench, gamma)
-    law = law_name(weight)
-    pd_min, v_min = paschen.minimum(c.A, c.B, gamma)
-    pd0 = paschen.no_breakdown_pd(c.A, gamma)
-    br = str(paschen.branch(rpd, c.A, gamma))
-    e_over_p = finite_or_none(paschen.breakdown_E_over_p(rpd, c.A, gamma, c.B))
+    v, w = law.voltage(rpd)
+    vb, weight = finite_or_none(v), float(w)
+    law_used = law_name(weight) if mix is None else "mixture"
+    pd_min, v_min = law.minimum()
+    pd0 = law.no_breakdown_pd()
+    br = str(law.branch(rpd))
+    e_over_p = finite_or_none(law.e_over_p(rpd))
     flags: list[Flag] = []
     if hall is not None:
         flags.append(
@@ -153,9 +186,20 @@ def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
                 "effective-pressure treatment of crossed E x B fields (Blevin & Haydon; Raizer 1991, from memory)",
             )
         )
-    # A bench curve has its own fitted range (curve_flags); the textbook E/p range says nothing of it.
-    flags += validity_flags(rpd, vb, weight, None if cv else e_over_p, pd0 * to_pressure, pd0, c, gas.law)
-    band, band_source, u = _band(rpd, bench, y, hall, weight, cv)
+    critical = None
+    if mix is None:
+        # A bench curve has its own fitted range (curve_flags); the textbook E/p range says nothing of it.
+        flags += validity_flags(
+            rpd, vb, weight, None if cv else e_over_p, pd0 * to_pressure, pd0, gas.constants, gas.law
+        )
+    else:
+        critical = law.critical_E_over_p
+        if vb is None:
+            flags.append(no_breakdown_flag(rpd, pd0, pd0 * to_pressure))
+        flags += mixture_flags(
+            bench.composition, mix.components, e_over_p, critical, mx.penning_pairs(mix), mx.ASSUMPTIONS
+        )
+    band, band_source, u = _band(rpd, bench, law, y, hall, weight, cv, mix is not None)
     if u is None:
         flags += curve_flags(cv, rpd)
 
@@ -163,28 +207,30 @@ def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
     V = point.voltage
     if V is None and bench.supply is not None:
         V = bench.supply.open_circuit_voltage
-    strays = stray_gaps(bench, lambda x: _breakdown(x, bench, gamma)[0], p_eff, scale, vb)
+    strays = stray_gaps(bench, lambda x: finite_or_none(law.voltage(x)[0]), p_eff, scale, vb)
     load = None
     if V is not None:
         E = V / point.gap
-        a = float(townsend.alpha(E, p_eff * scale, c.A, c.B))
-        ad = a * point.gap
+        a = law.alpha(E, p_eff * scale)
+        eta = law.eta(E, p_eff * scale)
+        ad, net = a * point.gap, (a - eta) * point.gap
         N = float(townsend.number_density(point.pressure, T))
         strikes = vb is not None and V >= vb
         result = {
             "voltage": V,
             "E_over_N_Td": float(townsend.reduced_field_Td(E, N)),
             "alpha": a,
+            "eta": eta if mix is not None else None,
             "alpha_d": ad,
-            "gain": float(townsend.avalanche_gain(ad)),
-            "current_growth": float(townsend.current_growth(ad, gamma)),
+            "gain": float(townsend.avalanche_gain(net)),
+            "current_growth": float(townsend.current_growth(ad, gamma, eta * point.gap)),
             "margin": None if vb is None else V - vb,
             "margin_fraction": None if vb is None else (V - vb) / vb,
             "strikes": strikes,
         }
-        flags += margin_flags(V, vb, band, law, u)
+        flags += margin_flags(V, vb, band, law_used, u)
         if hall is None and rpd >= STREAMER_CHECK_PD:
-            flags += streamer_flags(V, vb, ad, rpd, weight)
+            flags += streamer_flags(V, vb, net, rpd, weight)
         if bench.supply is not None and strikes:
             load, glow_flags = glow_after_ignition(bench, p_eff, v_min, V)
             flags += glow_flags
@@ -192,24 +238,28 @@ def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
     flags += left_branch_flags(br, point, bench, pd_min, v_min, scale, p_eff)
     after, after_flags = afterglow_between_pulses(point, bench)
     flags += after_flags
+    partial = _partial_pressures(point, bench)
+    target, charging, reactive_flags = _reactive(point, bench, mix, gamma, load)
+    flags += reactive_flags
 
+    c = law.constants if mix is None else None
     return Forecast(
-        gas=gas.key,
+        gas=bench.composition,
         cathode=bench.cathode.key,
         gamma=gamma,
         gamma_range=(y.low, y.high),
         gamma_source=y.source,
-        A=c.A,
-        B=c.B,
-        constants_source=c.source,
+        A=None if c is None else c.A,
+        B=None if c is None else c.B,
+        constants_source=c.source if c is not None else _mixed_sources(mix),
         pressure=point.pressure,
         gap=point.gap,
         gas_temperature=T,
-        reference_temperature=c.reference_temperature,
+        reference_temperature=law.reference_temperature,
         pd=point.pressure * point.gap,
         reduced_pd=rpd,
         breakdown_voltage=vb,
-        law=law,
+        law=law_used,
         minimum_pd=pd_min,
         minimum_voltage=v_min,
         minimum_pressure=pd_min * to_pressure,
@@ -223,16 +273,49 @@ def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
         stray_gaps=strays,
         load_line=load,
         afterglow=after,
+        composition=() if mix is None else tuple((c.gas.key, c.fraction) for c in mix.components),
+        mixing=mx.ASSUMPTIONS if mix is not None and len(mix.components) > 1 else (),
+        critical_E_over_N_Td=None if critical is None else critical * TD_PER_V_PER_PA_M,
+        partial_pressures=partial,
+        target=target,
+        charging=charging,
         flags=tuple(flags),
         **result,
     )
 
 
-def curve(reduced_pd: np.ndarray, bench: Bench) -> tuple[np.ndarray, np.ndarray]:
-    """The bench's breakdown curve over ``reduced_pd`` (Pa m): (V_b in V, law weight).
+def _mixed_sources(mix) -> str:
+    if len(mix.components) == 1:
+        g = mix.main
+        return f"{g.constants.source}; attachment: {g.attachment.source}"
+    return "mixed from " + "; ".join(f"{c.gas.key}: {c.gas.constants.source}" for c in mix.components)
 
-    Like :func:`forecast`, it uses a bench curve fitted for this gas and cathode where the
-    bench has one; pass ``replace(bench, curve=None)`` for the textbook curve.
-    """
-    bench, _cv = with_bench_curve(bench)
-    return paschen.breakdown_voltage_with_law(reduced_pd, bench.gas.constants, bench.yield_().value, bench.gas.law)
+
+def _partial_pressures(point: OperatingPoint, bench: Bench) -> tuple[tuple[str, float], ...]:
+    """Each gas's expected partial pressure flow / speed (steady state, every gas pumped alike)."""
+    if bench.pumping_speed is None:
+        return ()
+    return tuple((g.key, q / bench.pumping_speed) for g, q in point.flows)
+
+
+def _reactive(point, bench, mix, gamma, load):
+    """Target mode from the gas balance, and charging arcs on the target's film."""
+    flags: list[Flag] = []
+    target = None
+    gases = [c.gas for c in mix.components] if mix is not None else [bench.gas]
+    if bench.pumping_speed is not None and point.flows:
+        target = target_mode(point.pressure, dict(point.flows), bench.pumping_speed)
+        if target is not None:
+            flags += target_flags(target)
+    charging = None
+    reactive_fill = any(g.reactive for g in gases)
+    film_there = target.mode != "metal" if target is not None else reactive_fill
+    current = point.current if point.current is not None else (load.current if load is not None else None)
+    s = bench.supply
+    if bench.film is not None and film_there and s is not None and bench.cathode_area and current:
+        if math.isfinite(current) and current > 0:
+            on = None if s.mode != "pulsed" else 1.0 / s.frequency - s.off_time
+            area = bench.cathode_area * bench.racetrack_fraction
+            charging, more = charging_flags(bench.film, current, area, gamma, on, s.off_time)
+            flags += more
+    return target, charging, flags

@@ -7,14 +7,17 @@ strikeline writes every correction as true = factor x indicated (Pa in, Pa out):
 - thermal conductivity (Pirani-type), N2-calibrated: factor C of the gas, valid in the
   gauge's linear range only (low pressure); above it the response bends and the corrected
   value is approximate;
-- ionisation: factor 1/S with S the gas's relative sensitivity (N2 = 1).
+- ionisation: factor 1/S with S the gas's relative sensitivity (N2 = 1); in a mixture S is the
+  mole-fraction sum of its gases' (common practice).
 """
 
 from __future__ import annotations
 
+import math
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
-__all__ = ["GAUGE_KINDS", "GaugeCorrection", "correct"]
+__all__ = ["GAUGE_KINDS", "GaugeCorrection", "correct", "sensitivity"]
 
 GAUGE_KINDS = ("capacitance", "thermal", "ionisation")
 
@@ -47,3 +50,15 @@ def correct(indicated: float, c: GaugeCorrection) -> tuple[float, bool]:
         return indicated, True
     approximate = c.valid_below is not None and indicated > c.valid_below
     return indicated * c.factor, approximate
+
+
+def sensitivity(parts: Sequence[tuple[float, str]], table: Mapping[str, float]) -> float | None:
+    """An ionisation gauge's relative sensitivity to a fill of ``parts`` (mole fraction, gas key):
+    the mole-fraction sum of the gases' S in ``table`` (common practice); None when one is missing.
+
+    >>> round(sensitivity([(0.8, "argon"), (0.2, "oxygen")], {"argon": 1.4, "oxygen": 0.96}), 12)
+    1.312
+    """
+    if any(key not in table for _, key in parts):
+        return None
+    return math.fsum(x * table[key] for x, key in parts)

@@ -58,6 +58,7 @@ LIMITS: dict[str, Limit] = {
     "area": Limit("area", 1e-8, 10.0, "from a pin to a large target"),
     "field": Limit("field", 1e-6, 10.0, "magnetron fields are tens of millitesla"),
     "flow": Limit("flow", 1e-8, 10.0, "from a trickle to about 6000 slm"),
+    "pumping_speed": Limit("speed", 1e-4, 100.0, "from a small turbo pump's 0.1 l/s to the largest cryo pumps"),
 }
 """Accepted ranges by the name of what is given (SI units)."""
 

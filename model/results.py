@@ -11,6 +11,7 @@ from typing import TYPE_CHECKING, Any
 
 if TYPE_CHECKING:
     from .glow import LoadLine
+    from .reactive import Charging, TargetMode
 
 __all__ = ["LEVELS", "Afterglow", "Flag", "Forecast", "StrayResult", "finite_or_none", "json_safe"]
 
@@ -71,8 +72,10 @@ class Forecast:
     gamma: float
     gamma_range: tuple[float, float]
     gamma_source: str
-    A: float
-    B: float
+    A: float | None
+    """Townsend's A, 1/(Pa m) (None for a mixture: no single pair describes it)."""
+    B: float | None
+    """Townsend's B, V/(Pa m) (None for a mixture)."""
     constants_source: str
     pressure: float
     gap: float
@@ -82,7 +85,8 @@ class Forecast:
     reduced_pd: float
     breakdown_voltage: float | None
     law: str
-    """"paschen", "uniform-field" or "blend" (the two laws mixed near their meeting point)."""
+    """"paschen", "uniform-field", "blend" (the two laws mixed near their meeting point) or "mixture"
+    (Townsend's criterion with attachment, for a mixture or an attaching gas)."""
     minimum_pd: float
     minimum_voltage: float
     minimum_pressure: float
@@ -94,6 +98,8 @@ class Forecast:
     voltage: float | None = None
     E_over_N_Td: float | None = None
     alpha: float | None = None
+    eta: float | None = None
+    """Attachment coefficient at the applied field, 1/m (None: the gas does not attach)."""
     alpha_d: float | None = None
     gain: float | None = None
     current_growth: float | None = None
@@ -113,6 +119,16 @@ class Forecast:
     stray_gaps: tuple[StrayResult, ...] = ()
     load_line: LoadLine | None = None
     afterglow: Afterglow | None = None
+    composition: tuple[tuple[str, float], ...] = ()
+    """The mixture solved, (gas, mole fraction) largest first (empty: a pure gas, Paschen's law)."""
+    mixing: tuple[str, ...] = ()
+    """The mixing rules assumed, in words (empty: none)."""
+    critical_E_over_N_Td: float | None = None
+    """E/N where alpha = eta, Td (None: nothing attaches)."""
+    partial_pressures: tuple[tuple[str, float], ...] = ()
+    """Each flowing gas's expected partial pressure, flow / pumping speed, Pa (empty: flows or speed unknown)."""
+    target: TargetMode | None = None
+    charging: Charging | None = None
     flags: tuple[Flag, ...] = field(default_factory=tuple)
 
     @property
@@ -134,6 +150,9 @@ class Forecast:
                 "source": self.constants_source,
             },
             "law": self.law,
+            "composition": [{"gas": g, "fraction": x} for g, x in self.composition],
+            "mixing": list(self.mixing),
+            "critical_E_over_N_Td": self.critical_E_over_N_Td,
             "pressure_Pa": self.pressure,
             "gap_m": self.gap,
             "gas_temperature_K": self.gas_temperature,
@@ -155,6 +174,7 @@ class Forecast:
                 "voltage_V": self.voltage,
                 "E_over_N_Td": self.E_over_N_Td,
                 "alpha_per_m": self.alpha,
+                "eta_per_m": self.eta,
                 "alpha_d": self.alpha_d,
                 "gain": self.gain,
                 "current_growth": self.current_growth,
@@ -194,6 +214,25 @@ class Forecast:
                 "off_time_s": a.off_time,
                 "electron_temperature_eV": a.electron_temperature_eV,
                 "ion_temperature_eV": a.ion_temperature_eV,
+            }
+        if self.partial_pressures:
+            out["expected_partial_pressures_Pa"] = dict(self.partial_pressures)
+        if self.target is not None:
+            t = self.target
+            out["target"] = {
+                "reactive": list(t.reactive),
+                "expected_Pa": t.expected,
+                "measured_Pa": t.measured,
+                "consumed_fraction": t.consumed,
+                "mode": t.mode,
+            }
+        if self.charging is not None:
+            c = self.charging
+            out["charging"] = {
+                "film": c.film,
+                "ion_current_density_A_per_m2": c.current_density,
+                "time_s": c.time,
+                "on_time_s": c.on_time,
             }
         out["flags"] = [asdict(f) for f in self.flags]
         return json_safe(out)

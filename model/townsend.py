@@ -69,7 +69,7 @@ def avalanche_gain(alpha_d: ArrayLike) -> NDArray[np.float64]:
         return np.exp(np.asarray(alpha_d, dtype=float))
 
 
-def current_growth(alpha_d: ArrayLike, gamma: float) -> NDArray[np.float64]:
+def current_growth(alpha_d: ArrayLike, gamma: float, eta_d: float = 0.0) -> NDArray[np.float64]:
     """Steady current amplification with secondary emission, I/I0.
 
     I/I0 = exp(alpha d) / (1 - gamma (exp(alpha d) - 1))
@@ -79,11 +79,21 @@ def current_growth(alpha_d: ArrayLike, gamma: float) -> NDArray[np.float64]:
     depends on an external source and the steady formula has no meaning, so ``inf``
     is returned.
 
+    With attachment (``eta_d`` = eta d) the same balance reads
+    I/I0 = exp((alpha - eta) d) / (1 - gamma alpha/(alpha - eta) (exp((alpha - eta) d) - 1)).
+
     >>> float(current_growth(0.0, 0.1))
     1.0
     >>> float(current_growth(breakdown_alpha_d(0.1), 0.1))
     inf
     """
+    if eta_d:
+        net = np.asarray(alpha_d, dtype=float) - eta_d
+        g = avalanche_gain(net)
+        with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
+            ions = np.where(np.abs(net) > 1e-12, alpha_d / net * (g - 1.0), alpha_d)
+            denom = 1.0 - gamma * ions
+            return np.where(denom > 1e-12, g / np.where(denom > 1e-12, denom, 1.0), np.inf)
     g = avalanche_gain(alpha_d)
     with np.errstate(over="ignore", invalid="ignore"):
         denom = 1.0 - gamma * (g - 1.0)

@@ -120,6 +120,13 @@ _KINDS: dict[str, _Kind] = {
         },
         '"20 sccm", "0.5 slm", "0.03 Pa m3/s"',
     ),
+    # Pumping speed: volume per time at the chamber.
+    "speed": _Kind(
+        "speed",
+        "m3/s",
+        {"m3/s": 1.0, "l/s": _c.milli, "m3/h": 1.0 / 3600.0, "l/min": _c.milli / 60.0},
+        '"250 l/s", "900 m3/h"',
+    ),
 }
 KINDS: tuple[str, ...] = tuple(_KINDS)
 

@@ -1,6 +1,7 @@
 """Bench profiles: load and validate a bench file (or a built-in bench) into a :class:`BenchProfile`.
 
-A bench file holds [bench], [supply], [[stray_gap]], [chamber], [[port]] and [curve] sections;
+A bench file holds [bench], [supply], [[stray_gap]], [chamber], [[port]], [flows], [target] and
+[curve] sections;
 every problem is one line naming the file, the section, the field and the accepted form. A
 fitted curve is saved back into the file atomically, the rest of the file kept as written.
 """
@@ -10,7 +11,7 @@ from __future__ import annotations
 import os
 import tempfile
 from collections.abc import Mapping
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from importlib import resources
 from pathlib import Path
 
@@ -19,12 +20,22 @@ from ..model.bench import Bench, BenchCurve, Chamber, StrayGap, Supply
 from ..model.gauges import GaugeCorrection
 from .benchcurve import curve_section, with_curve_section
 from .fields import ProfileError, Table, read_toml
+from .fill import Fill, fill_field, find_film, with_fill
 from .gasdata import find_cathode, find_gas
+from .gauges import gauge_correction
 from .ports import port_sections
 
-__all__ = ["BUILTIN_BENCHES", "BenchProfile", "load_bench", "parse_bench", "save_curve", "write_atomic"]
+__all__ = [
+    "BUILTIN_BENCHES",
+    "BenchProfile",
+    "load_bench",
+    "parse_bench",
+    "save_curve",
+    "with_profile_fill",
+    "write_atomic",
+]
 
-BUILTIN_BENCHES = ("demo", "demo-magnetron")
+BUILTIN_BENCHES = ("demo", "demo-magnetron", "demo-reactive")
 
 
 @dataclass(frozen=True)
@@ -42,6 +53,8 @@ class BenchProfile:
     """Instrument ports and their channels."""
     gauges: Mapping[str, GaugeCorrection] = field(default_factory=dict)
     """Gas correction by pressure-channel name."""
+    flows: Mapping[str, str] = field(default_factory=dict)
+    """The flow channel of each gas, by gas key ([flows] channels): the composition follows them."""
 
 
 _BENCH_FIELDS = (
@@ -56,11 +69,11 @@ _BENCH_FIELDS = (
     "cathode_area",
     "magnetic_field",
 )
-_SECTIONS = ("bench", "supply", "stray_gap", "chamber", "port", "curve")
+_SECTIONS = ("bench", "supply", "stray_gap", "chamber", "port", "flows", "target", "curve")
 
 
 def load_bench(ref: str | os.PathLike[str]) -> BenchProfile:
-    """Load a bench file, or a built-in bench by name ("demo", "demo-magnetron")."""
+    """Load a bench file, or a built-in bench by name (:data:`BUILTIN_BENCHES`)."""
     ref_s = os.fspath(ref)
     if ref_s in BUILTIN_BENCHES:
         text = resources.files("strikeline.profiles").joinpath("benches", f"{ref_s}.toml").read_text("utf-8")
@@ -86,7 +99,7 @@ def parse_bench(text: str, label: str, path: Path | None) -> BenchProfile:
     if b is None:
         raise ProfileError(f"{label}: [bench] missing; it holds gas, cathode and gap")
     b.only(_BENCH_FIELDS)
-    gas = b.lookup("gas", find_gas)
+    fill = fill_field(b, "gas")
     cathode = b.lookup("cathode", find_cathode)
     supply = None
     if (s := top.sub("supply")) is not None:
@@ -117,11 +130,21 @@ def parse_bench(text: str, label: str, path: Path | None) -> BenchProfile:
     if (c := top.sub("chamber")) is not None:
         c.only(("radius", "length"))
         chamber = Chamber(c.quantity("radius", "chamber"), c.quantity("length", "chamber"))
-    ports, gauges = port_sections(raw, label, gas)
-    curve = curve_section(top.sub("curve"), gas, cathode)
+    ports, gauges = port_sections(raw, label, fill.mixture or fill.gas)
+    curve = curve_section(top.sub("curve"), fill.key, cathode)
+    flows, speed = _flows_section(top.sub("flows"), ports)
+    film, racetrack = None, 1.0
+    if (t := top.sub("target")) is not None:
+        t.only(("film", "racetrack_fraction"))
+        film = t.lookup("film", find_film)
+        racetrack = t.number("racetrack_fraction", 1e-3, 1.0, default=1.0)
     bench = Bench(
         name=b.string("name", default=path.stem if path else label),
-        gas=gas,
+        gas=fill.gas,
+        mixture=fill.mixture,
+        pumping_speed=speed,
+        film=film,
+        racetrack_fraction=racetrack,
         cathode=cathode,
         gap=b.quantity("gap", "gap"),
         gas_temperature=b.quantity("gas_temperature", "temperature", required=False) or 293.15,
@@ -135,7 +158,38 @@ def parse_bench(text: str, label: str, path: Path | None) -> BenchProfile:
         curve=curve,
     )
     description = b.string("description", default="") if b.has("description") else ""
-    return BenchProfile(bench, path, label, description, ports, gauges)
+    return BenchProfile(bench, path, label, description, ports, gauges, flows)
+
+
+def _flows_section(t: Table | None, ports) -> tuple[dict[str, str], float | None]:
+    """[flows]: the pumping speed at the chamber, and the flow channel of each gas."""
+    if t is None:
+        return {}, None
+    t.only(("pumping_speed", "channels"))
+    speed = t.quantity("pumping_speed", "pumping_speed", required=False)
+    flow_channels = {c.name for p in ports for c in p.channels if c.quantity == "flow"}
+    out: dict[str, str] = {}
+    if (c := t.sub("channels")) is not None:
+        for name in c.data:
+            try:
+                gas = find_gas(name)  # the key names the gas, the value its channel
+            except ProfileError as e:
+                raise c.fail(name, str(e)) from None
+            channel = c.string(name)
+            if channel not in flow_channels:
+                known = ", ".join(sorted(flow_channels)) or "none in this profile"
+                raise c.fail(name, f'{channel!r} is not a flow channel ([[port.channel]] quantity = "flow": {known})')
+            if gas.key in out:
+                raise c.fail(name, f"{gas.key} is given twice")
+            out[gas.key] = channel
+    return out, speed
+
+
+def with_profile_fill(profile: BenchProfile, fill: Fill) -> BenchProfile:
+    """The profile with another gas fill; its gauges' corrections follow (a factor set by hand stays)."""
+    what = fill.mixture or fill.gas
+    gauges = {ch: c if c.overridden else gauge_correction(c.kind, what) for ch, c in profile.gauges.items()}
+    return replace(profile, bench=with_fill(profile.bench, fill), gauges=gauges)
 
 
 def save_curve(path: str | os.PathLike[str], curve: BenchCurve) -> BenchProfile:

@@ -1,16 +1,19 @@
 """A bench curve fitted to this bench's strikes, as the [curve] section of its bench file.
 
 ``strikeline fit --save`` writes it with :func:`with_curve_section`; the loader reads it back
-with :func:`curve_section`, refusing a curve fitted for another gas or cathode.
+with :func:`curve_section`, refusing a curve fitted for another gas fill or cathode (a mixture's
+fractions may differ by :data:`strikeline.model.composition.SAME_WITHIN`).
 """
 
 from __future__ import annotations
 
 import math
 
-from ..model.bench import BenchCurve, Cathode, Gas
+from ..model.bench import BenchCurve, Cathode
+from ..model.composition import same_composition
 from .fields import Table
-from .gasdata import find_cathode, find_gas
+from .fill import read_fill
+from .gasdata import find_cathode
 
 __all__ = ["curve_section", "curve_toml", "with_curve_section"]
 
@@ -35,16 +38,19 @@ _CURVE_FIELDS = (
 )
 
 
-def curve_section(t: Table | None, gas: Gas, cathode: Cathode) -> BenchCurve | None:
-    """The fitted bench curve, as ``strikeline fit --save`` writes it."""
+def curve_section(t: Table | None, composition: str, cathode: Cathode) -> BenchCurve | None:
+    """The fitted bench curve, as ``strikeline fit --save`` writes it, for the bench's gas fill
+    ``composition`` (a composition key) on ``cathode``."""
     if t is None:
         return None
     t.only(_CURVE_FIELDS)
-    fitted_gas, fitted_cathode = t.lookup("gas", find_gas), t.lookup("cathode", find_cathode)
-    if fitted_gas.key != gas.key or fitted_cathode.key != cathode.key:
+    fitted_fill, fitted_cathode = t.lookup("gas", read_fill), t.lookup("cathode", find_cathode)
+    if fitted_fill.flows:
+        raise t.fail("gas", f"{t.data['gas']!r} gives flows; a curve names its fill by parts")
+    if not same_composition(fitted_fill.key, composition) or fitted_cathode.key != cathode.key:
         raise t.fail(
             "gas",
-            f"the curve was fitted for {fitted_gas.key} on {fitted_cathode.key}, but the bench is {gas.key} on "
+            f"the curve was fitted for {fitted_fill.key} on {fitted_cathode.key}, but the bench is {composition} on "
             f"{cathode.key}: refit it, or delete the [curve] section",
         )
     cov = t.data.get("covariance_ln")
@@ -76,7 +82,7 @@ def curve_section(t: Table | None, gas: Gas, cathode: Cathode) -> BenchCurve | N
         n_points=int(t.number("n_points", 1, 1e6)),
         pd_low=pd_low,
         pd_high=pd_high,
-        gas=gas.key,
+        gas=fitted_fill.key,
         cathode=cathode.key,
         fitted_on=t.string("fitted_on"),
         residual_scale=t.number("residual_scale", 0, 10),

@@ -80,17 +80,19 @@ class Table:
             raise self.fail(key, f"{v!r} is not a number from {lo:g} to {hi:g}")
         return float(v)
 
-    def pair(self, key: str, lo: float, hi: float) -> tuple[float, float]:
+    def pair(self, key: str, lo: float, hi: float, *, equal: bool = False) -> tuple[float, float]:
+        """[low, high] inside [lo, hi]; ``equal``: low may equal high (a range that is one value)."""
         v = self.data.get(key)
         ok = (
             isinstance(v, list)
             and len(v) == 2
             and all(isinstance(x, int | float) and not isinstance(x, bool) for x in v)
             and all(math.isfinite(x) and lo <= x <= hi for x in v)
-            and v[0] < v[1]
+            and (v[0] < v[1] or (equal and v[0] == v[1]))
         )
         if not ok:
-            raise self.fail(key, f"{v!r} is not [low, high] with {lo:g} <= low < high <= {hi:g}")
+            order = "<=" if equal else "<"
+            raise self.fail(key, f"{v!r} is not [low, high] with {lo:g} <= low {order} high <= {hi:g}")
         return float(v[0]), float(v[1])
 
     def quantity(self, key: str, limit: str | Limit, *, required: bool = True) -> float | None:

@@ -13,7 +13,15 @@ from functools import cache
 from importlib import resources
 
 from ..model import constants as _c
-from ..model.bench import Cathode, Gas, NormalGlow, TownsendConstants, UniformFieldLaw, Yield
+from ..model.bench import (
+    Attachment,
+    Cathode,
+    Gas,
+    NormalGlow,
+    TownsendConstants,
+    UniformFieldLaw,
+    Yield,
+)
 from .fields import ProfileError, Table, name_key, read_toml
 
 __all__ = [
@@ -23,7 +31,6 @@ __all__ = [
     "find_cathode",
     "find_gas",
     "gases",
-    "unsupported_gases",
 ]
 
 PER_CM_TORR = 1.0 / (_c.centi * _c.torr)
@@ -36,20 +43,15 @@ def data_text(name: str) -> str:
 
 
 @cache
-def _gas_tables() -> tuple[dict[str, Gas], dict[str, str], dict[str, str]]:
-    """(gases by key, key by any accepted name, reason by any name of an unsupported gas)."""
+def _gas_tables() -> tuple[dict[str, Gas], dict[str, str]]:
+    """(gases by key, key by any accepted name)."""
     file = "gases.toml"
     raw = read_toml(data_text(file), file)
     out: dict[str, Gas] = {}
     names: dict[str, str] = {}
-    unsupported: dict[str, str] = {}
     for key, data in raw.items():
         t = Table(file, key, data)
         aliases = (key, t.string("symbol"), *data.get("aliases", ()))
-        if t.has("unsupported"):
-            for alias in aliases:
-                unsupported[name_key(alias)] = t.string("unsupported")
-            continue
         for alias in aliases:
             names[name_key(alias)] = key
         law = None
@@ -64,15 +66,8 @@ def _gas_tables() -> tuple[dict[str, Gas], dict[str, str], dict[str, str]]:
                 valid_to=lt.number("valid_to_cm", 0, 1e3) * _c.centi,
                 source=lt.string("source"),
             )
-        lo, hi = t.pair("E_over_p_V_per_cm_Torr", 0, 1e5)
-        constants = TownsendConstants(
-            A=t.number("A_per_cm_Torr", 0.01, 1e3) * PER_CM_TORR,
-            B=t.number("B_V_per_cm_Torr", 1, 1e4) * PER_CM_TORR,
-            E_over_p_low=lo * PER_CM_TORR,
-            E_over_p_high=hi * PER_CM_TORR,
-            reference_temperature=t.number("reference_temperature_K", 1, 1e4),
-            source=t.string("source"),
-        )
+        constants = _constants(t)
+        low = t.sub("low_field")
         out[key] = Gas(
             key=key,
             symbol=t.string("symbol"),
@@ -84,28 +79,53 @@ def _gas_tables() -> tuple[dict[str, Gas], dict[str, str], dict[str, str]]:
             ion_mobility_source=t.string("ion_mobility_source"),
             electron_collision_per_Pa=t.number("electron_collision_per_s_Torr", 1e6, 1e12) / _c.torr,
             noble=bool(t.data.get("noble", False)),
+            low_field=None if low is None else _constants(low),
+            attachment=_attachment(t.sub("attachment")),
+            metastable_energy=t.number("metastable_energy_eV", 1, 30, required=False),
+            reactive=bool(t.data.get("reactive", False)),
         )
-    return out, names, unsupported
+    return out, names
+
+
+def _constants(t: Table) -> TownsendConstants:
+    lo, hi = t.pair("E_over_p_V_per_cm_Torr", 0, 1e5)
+    return TownsendConstants(
+        A=t.number("A_per_cm_Torr", 0.01, 1e3) * PER_CM_TORR,
+        B=t.number("B_V_per_cm_Torr", 1, 1e4) * PER_CM_TORR,
+        E_over_p_low=lo * PER_CM_TORR,
+        E_over_p_high=hi * PER_CM_TORR,
+        reference_temperature=t.number("reference_temperature_K", 1, 1e4),
+        source=t.string("source"),
+    )
+
+
+def _attachment(t: Table | None) -> Attachment | None:
+    if t is None:
+        return None
+    lo, hi = t.pair("E_over_p_V_per_cm_Torr", 0, 1e5)
+    return Attachment(
+        k1_high=t.number("k1_high_per_V", 0, 1),
+        k0_high=t.number("k0_high_per_cm_Torr", -10, 10) * PER_CM_TORR,
+        k1_low=t.number("k1_low_per_V", 0, 1),
+        k0_low=t.number("k0_low_per_cm_Torr", -10, 10) * PER_CM_TORR,
+        switch=t.number("switch_V_per_cm_Torr", 0, 1e5) * PER_CM_TORR,
+        valid_low=lo * PER_CM_TORR,
+        valid_high=hi * PER_CM_TORR,
+        source=t.string("source"),
+    )
 
 
 def gases() -> dict[str, Gas]:
-    """All supported gases by canonical key."""
+    """All gases by canonical key."""
     return dict(_gas_tables()[0])
-
-
-def unsupported_gases() -> dict[str, str]:
-    """Names of gases listed but not supported by this law, with the reason."""
-    return dict(_gas_tables()[2])
 
 
 def find_gas(name: str) -> Gas:
     """The gas called ``name`` (name, symbol or alias, any case), or a one-line error."""
-    table, names, unsupported = _gas_tables()
+    table, names = _gas_tables()
     k = name_key(name)
     if k in names:
         return table[names[k]]
-    if k in unsupported:
-        raise ProfileError(f"gas {name!r} is not supported: {unsupported[k]}")
     known = ", ".join(f"{g.symbol} ({g.key})" if g.symbol.casefold() != g.key else g.key for g in table.values())
     raise ProfileError(f"gas {name!r}: unknown; use one of {known}")
 

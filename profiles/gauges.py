@@ -1,12 +1,18 @@
-"""Gauge kinds and their gas correction (``profiles/data/gauges.toml``): true = factor x indicated."""
+"""Gauge kinds and their gas correction (``profiles/data/gauges.toml``): true = factor x indicated.
+
+For a mixture, an ionisation gauge's relative sensitivity is the mole-fraction sum of its gases'
+(common practice). A thermal gauge's response to a mixture is no such sum (heat conduction of a
+mixture is not linear in its composition), so no factor is made up: the reading is shown as it
+is and marked approximate. A capacitance gauge reads any gas truly.
+"""
 
 from __future__ import annotations
 
 from functools import cache
 from typing import Any
 
-from ..model.bench import Gas
-from ..model.gauges import GaugeCorrection
+from ..model.bench import Gas, Mixture
+from ..model.gauges import GaugeCorrection, sensitivity
 from .fields import read_toml
 from .gasdata import data_text
 
@@ -18,8 +24,9 @@ def _gauge_data() -> dict[str, Any]:
     return read_toml(data_text("gauges.toml"), "gauges.toml")
 
 
-def gauge_correction(kind: str, gas: Gas, override: float | None = None) -> GaugeCorrection:
-    """The correction of a ``kind`` gauge's reading in ``gas`` (``override``: true = f x indicated)."""
+def gauge_correction(kind: str, fill: Gas | Mixture, override: float | None = None) -> GaugeCorrection:
+    """The correction of a ``kind`` gauge's reading in ``fill`` (a gas or a mixture; ``override``:
+    true = f x indicated, set by hand)."""
     d = _gauge_data()[kind]
     limit = d.get("linear_below_Pa")
     if override is not None:
@@ -27,12 +34,16 @@ def gauge_correction(kind: str, gas: Gas, override: float | None = None) -> Gaug
     if kind == "capacitance":
         return GaugeCorrection(kind, 1.0, None, d["source"])
     if kind == "thermal":
-        f = d["factor"].get(gas.key)
-        return GaugeCorrection(kind, f, limit, d["source"] if f else f"no thermal-gauge factor for {gas.key}")
-    s = d["sensitivity"].get(gas.key)
-    return GaugeCorrection(
-        kind,
-        None if s is None else 1.0 / s,
-        limit,
-        d["source"] if s else f"no ionisation-gauge sensitivity for {gas.key}",
-    )
+        if isinstance(fill, Mixture):
+            why = f"no thermal-gauge factor for a mixture ({fill.key}): reading shown uncorrected, approximate"
+            return GaugeCorrection(kind, None, limit, why)
+        f = d["factor"].get(fill.key)
+        return GaugeCorrection(kind, f, limit, d["source"] if f else f"no thermal-gauge factor for {fill.key}")
+    table = d["sensitivity"]
+    parts = [(1.0, fill.key)] if isinstance(fill, Gas) else [(c.fraction, c.gas.key) for c in fill.components]
+    s = sensitivity(parts, table)
+    if s is None:
+        missing = ", ".join(key for _, key in parts if key not in table)
+        return GaugeCorrection(kind, None, limit, f"no ionisation-gauge sensitivity for {missing}")
+    source = d["source"] if isinstance(fill, Gas) else f"{d['source']}; mole-fraction sum (common practice)"
+    return GaugeCorrection(kind, 1.0 / s, limit, source)

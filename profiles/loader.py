@@ -5,10 +5,10 @@ new code may import from :mod:`.bench`, :mod:`.gasdata`, :mod:`.gauges`, :mod:`.
 :mod:`.benchcurve` and :mod:`.fields` directly.
 """
 
-from .bench import BUILTIN_BENCHES, BenchProfile, load_bench, parse_bench, save_curve, write_atomic
+from .bench import BUILTIN_BENCHES, BenchProfile, load_bench, parse_bench, save_curve, with_profile_fill, write_atomic
 from .benchcurve import curve_toml
 from .fields import ProfileError
-from .gasdata import PER_CM_TORR, cathodes, find_cathode, find_gas, gases, unsupported_gases
+from .gasdata import PER_CM_TORR, cathodes, find_cathode, find_gas, gases
 from .gauges import gauge_correction
 
 __all__ = [
@@ -25,6 +25,6 @@ __all__ = [
     "load_bench",
     "parse_bench",
     "save_curve",
-    "unsupported_gases",
+    "with_profile_fill",
     "write_atomic",
 ]

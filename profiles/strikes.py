@@ -1,7 +1,8 @@
 """Strike points from CSV: what the calibration fits.
 
 Columns (any order, case-insensitive): ``pressure``, ``gap``, ``voltage``, and optionally
-``temperature``. A header may carry the unit (``pressure_Pa``, ``gap [mm]``,
+``temperature`` and ``gas`` (the gas fill the strike was made in, as ``--gas`` writes it; ``fit``
+leaves out strikes made in another fill). A header may carry the unit (``pressure_Pa``, ``gap [mm]``,
 ``voltage (kV)``); cells may carry their own ("20 mTorr"). Every bad row is reported with
 its line number and skipped, never dropped silently.
 """
@@ -15,6 +16,8 @@ from dataclasses import dataclass
 
 from ..model import units
 from ..model.limits import check, parse_within
+from .fields import ProfileError
+from .fill import read_fill
 
 __all__ = ["StrikePoint", "StrikeTable", "parse_strike_csv", "read_strike_csv"]
 
@@ -38,6 +41,8 @@ class StrikePoint:
     temperature: float | None
     """K, None where not given."""
     line: int
+    gas: str | None = None
+    """The gas fill's composition key, None where not given."""
 
 
 @dataclass(frozen=True)
@@ -72,6 +77,7 @@ def parse_strike_csv(text: str, label: str = "points.csv") -> StrikeTable:
         raise ValueError(f"{label}: empty; give a header line with pressure, gap and voltage columns")
     header = rows[start]
     cols: dict[str, tuple[int, float | None]] = {}
+    gas_col = next((j for j, name in enumerate(header) if name.strip().casefold() == "gas"), None)
     for j, name in enumerate(header):
         m = _HEADER.match(name)
         if m is None:
@@ -119,7 +125,15 @@ def parse_strike_csv(text: str, label: str = "points.csv") -> StrikeTable:
         except units.QuantityError as e:
             problems.append(f"line {line}: {e}; row skipped")
             continue
+        gas = None
+        cell = row[gas_col].strip() if gas_col is not None and gas_col < len(row) else ""
+        if cell:
+            try:
+                gas = read_fill(cell).key
+            except ProfileError as e:
+                problems.append(f"line {line}: {e}; row skipped")
+                continue
         points.append(
-            StrikePoint(values["pressure"], values["gap"], values["voltage"], values.get("temperature"), line)
+            StrikePoint(values["pressure"], values["gap"], values["voltage"], values.get("temperature"), line, gas)
         )
     return StrikeTable(tuple(points), tuple(problems))

@@ -148,7 +148,7 @@ def test_strike_text_in_torr_units(capsys):
             ["strike", "--gas", "Ar", "--cathode", "Cu", "--pressure", "5 Pa", "--gap", "-1mm"],
             "length '-1mm': must be above zero",
         ),
-        (["strike", "--gas", "O2", "--cathode", "Cu", "--pressure", "5 Pa", "--gap", "1mm"], "not supported"),
+        (["strike", "--gas", "argon:80,argon:20", "--cathode", "Cu", "--pressure", "5 Pa", "--gap", "1cm"], "twice"),
         (["strike", "--gas", "Ar", "--cathode", "Cu", "--gap", "1mm"], "--pressure needed"),
         (["strike", "--gas", "Ar", "--pressure", "1 Pa", "--gap", "1mm"], "--cathode needed"),
         (["strike", "--gas", "Ar", "--cathode", "Cu", "--pressure", "1 Pa"], "--gap needed"),
@@ -223,7 +223,7 @@ def test_curve_csv_over_pd_by_default(capsys):
 
 def test_gases_text_and_json(capsys):
     code, out, _ = run(capsys, "gases")
-    assert code == 0 and "Raizer" in out and "not supported" in out and "Cu copper" in out
+    assert code == 0 and "Raizer" in out and "Penning (flagged): neon with" in out and "Cu copper" in out
     code, out, _ = run(capsys, "gases", "--json")
     d = json.loads(out)
     assert {g["symbol"] for g in d["gases"]} >= {
@@ -238,7 +238,11 @@ def test_gases_text_and_json(capsys):
         "CO2",
         "H2O",
     }
-    assert d["unsupported"][0]["name"] in ("oxygen", "o2")
+    assert {"buffer": "neon", "admixture": "argon"}.items() <= next(
+        p for p in d["mixing"]["penning"] if p["admixture"] == "argon" and p["buffer"] == "neon"
+    ).items()
+    assert [r["gases"] for r in d["mixing"]["refused"]] == [["air", "nitrogen"], ["air", "oxygen"]]
+    assert {f["film"] for f in d["films"]} >= {"Al2O3", "SiO2", "TiO2", "Ta2O5", "AlN", "Si3N4"}
     assert all(g["source"] for g in d["gases"])
 
 

@@ -81,7 +81,29 @@ CLI = [
     ("gamma inf", ["strike", "--bench", "demo", "--gamma", "inf"], {}, 2, "not a secondary-electron yield"),
     ("gamma text", ["strike", "--bench", "demo", "--gamma", "high"], {}, 2, "not a secondary-electron yield"),
     ("gas unknown", ["strike", "--bench", "demo", "--gas", "bananium"], {}, 2, "gas 'bananium': unknown"),
-    ("gas empty", ["strike", "--bench", "demo", "--gas", ""], {}, 2, "gas '': unknown"),
+    ("gas empty", ["strike", "--bench", "demo", "--gas", ""], {}, 2, "gas '': empty"),
+    # mixtures: the list (unknown gas, negative or zero parts, parts adding up to nothing,
+    # a gas listed twice, gases that cannot be mixed) and what else a hand can type
+    ("mix unknown", ["strike", "--bench", "demo", "--gas", "argon:80,unobtainium:20"], {}, 2, "unobtainium"),
+    ("mix negative", ["strike", "--bench", "demo", "--gas", "argon:80,oxygen:-20"], {}, 2, "above zero"),
+    ("mix zero part", ["strike", "--bench", "demo", "--gas", "argon:80,oxygen:0"], {}, 2, "above zero"),
+    ("mix all zero", ["strike", "--bench", "demo", "--gas", "argon:0,oxygen:0"], {}, 2, "above zero"),
+    ("mix overflow", ["strike", "--bench", "demo", "--gas", "argon:1e308,oxygen:1e308"], {}, 2, "no finite number"),
+    ("mix nan", ["strike", "--bench", "demo", "--gas", "argon:nan,oxygen:1"], {}, 2, "above zero"),
+    ("mix inf", ["strike", "--bench", "demo", "--gas", "argon:inf,oxygen:1"], {}, 2, "above zero"),
+    ("mix twice", ["strike", "--bench", "demo", "--gas", "argon:1,Ar:1"], {}, 2, "argon is listed twice"),
+    ("mix air+O2", ["strike", "--bench", "demo", "--gas", "air:50,oxygen:50"], {}, 2, "air already holds"),
+    ("mix no parts", ["strike", "--bench", "demo", "--gas", "argon,oxygen"], {}, 2, "has no parts"),
+    ("mix empty parts", ["strike", "--bench", "demo", "--gas", "argon:,oxygen:1"], {}, 2, "above zero"),
+    ("mix no name", ["strike", "--bench", "demo", "--gas", ":5,oxygen:1"], {}, 2, "names no gas"),
+    ("mix parts+flow", ["strike", "--bench", "demo", "--gas", "argon:40 sccm,oxygen:5"], {}, 2, "every gas parts"),
+    ("mix flow unit", ["strike", "--bench", "demo", "--gas", "argon:40 Pa,oxygen:5 sccm"], {}, 2, "unknown unit"),
+    ("mix flow zero", ["strike", "--bench", "demo", "--gas", "argon:40 sccm,oxygen:0 sccm"], {}, 2, "above zero"),
+    ("mix flow huge", ["strike", "--bench", "demo", "--gas", "argon:1e9 slm,oxygen:1 sccm"], {}, 2, "outside"),
+    ("film unknown", ["strike", "--bench", "demo", "--film", "unobtainium oxide"], {}, 2, "film 'unobtainium oxide'"),
+    ("speed zero", ["strike", "--bench", "demo", "--pumping-speed", "0 l/s"], {}, 2, "above zero"),
+    ("speed unit", ["strike", "--bench", "demo", "--pumping-speed", "250 sccm"], {}, 2, "unknown unit"),
+    ("current negative", ["strike", "--bench", "demo", "--current=-2 A"], {}, 2, "above zero"),
     ("cathode unknown", ["strike", "--bench", "demo", "--cathode", "gold"], {}, 2, "cathode 'gold': unknown"),
     ("bench missing", ["strike", "--bench", "{tmp}/none.toml"], {}, 2, "no such file"),
     ("bench folder", ["strike", "--bench", "{tmp}"], {}, 2, "cannot be read"),
@@ -490,7 +512,7 @@ def test_logbook_record_is_skipped_and_named(tmp_path, capsys, record, needle):
     summary = json.loads(out)  # valid JSON: never NaN
     assert [s["line"] for s in summary["skipped"]] == [3]
     assert needle in summary["skipped"][0]["why"], summary["skipped"]
-    assert csv.read_text().splitlines()[1] == "20.0,0.03,450.0"  # the good mark, and only good ones
+    assert csv.read_text().splitlines()[1] == "20.0,0.03,450.0,"  # the good mark (no gas recorded), only good ones
     assert len(csv.read_text().splitlines()) == 2
     assert err.count("\n") == 1 and "1 strike marks written" in err
 

@@ -193,7 +193,17 @@ def test_kill_9_of_a_real_recording_loses_at_most_the_last_second(tmp_path):
 def _known_log(tmp_path):
     path = tmp_path / "known.jsonl"
     base = 1.8e9
-    recs = [{"kind": "session", "t": "x", "t_unix": base, "mono": 0, "bench": "demo"}]
+    recs = [{"kind": "session", "t": "x", "t_unix": base, "mono": 0, "bench": "demo", "gas": "argon"}]
+    recs.append(
+        {
+            "kind": "fill",
+            "t_unix": base + 12,
+            "t": "2027-01-15T08:00:12.000000Z",
+            "composition": "argon:80,oxygen:20",
+            "source": "typed",
+            "flows_Pa_m3_s": {},
+        }
+    )
     for i in range(10):
         recs.append(
             {
@@ -247,6 +257,7 @@ def _known_log(tmp_path):
             "pressure_Pa": 20.0,
             "gap_m": 0.03,
             "voltage_V": 450.0,
+            "gas": "argon:80,oxygen:20",
         }
     )
     recs.append(
@@ -274,6 +285,7 @@ def test_summary_figures_on_a_known_log(tmp_path):
         and s["gaps"][0]["to"] == pytest.approx(1.8e9 + 15)
     )
     assert len(s["faults"]) == 1 and len(s["strikes"]) == 1 and len(s["flag_changes"]) == 1
+    assert [(f["composition"], f["source"]) for f in s["fills"]] == [("argon", "profile"), ("argon:80,oxygen:20", "typed")]
 
 
 def test_log_verb_exports_strike_marks_for_calibration(tmp_path, capsys):
@@ -281,7 +293,8 @@ def test_log_verb_exports_strike_marks_for_calibration(tmp_path, capsys):
     assert cli.main(["log", str(_known_log(tmp_path)), "--strikes", str(out)]) == 0
     text = capsys.readouterr().out
     assert "strike marks (1)" in text and "gaps and faults (1 gaps, 1 faults" in text
-    assert out.read_text().splitlines() == ["pressure_Pa,gap_m,voltage_V", "20.0,0.03,450.0"]
+    assert "08:00:12.000  argon:80,oxygen:20 (typed)" in text
+    assert out.read_text().splitlines() == ["pressure_Pa,gap_m,voltage_V,gas", '20.0,0.03,450.0,"argon:80,oxygen:20"']
     assert cli.main(["log", str(tmp_path / "none.jsonl")]) == 2
 
 

@@ -82,9 +82,10 @@ def test_cathodes_found_by_name_or_symbol_any_case(name, key):
     assert find_cathode(name).key == key
 
 
-def test_oxygen_is_listed_as_unsupported_with_its_reason():
-    with pytest.raises(ProfileError, match="not supported: oxygen attaches electrons"):
-        find_gas("O2")
+def test_oxygen_is_a_gas_that_attaches_electrons():
+    # Oxygen used to be refused; it now carries Morrow & Lowke's attachment fit (gases.toml).
+    o2 = find_gas("O2")
+    assert o2.key == "oxygen" and o2.attachment is not None and o2.reactive
 
 
 def test_unknown_names_list_the_accepted_ones():

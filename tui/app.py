@@ -70,7 +70,7 @@ def make_app(
         logbook.open(
             strict=strict_log,
             bench=profile.label,
-            gas=profile.bench.gas.key,
+            gas=profile.bench.composition,
             cathode=profile.bench.cathode.key,
             mode="manual" if manual else "live",
         )

@@ -10,6 +10,7 @@ from typing import Any
 import numpy as np
 
 from ..model.bench import Bench, OperatingPoint
+from ..model.breakdown import breakdown_law
 from ..model.calibration import FitResult, fit_curve
 from ..model.forecast import forecast
 
@@ -56,8 +57,9 @@ def calibrate(
         pd.append(f.reduced_pd)
         v.append(volts)
         vb.append(math.nan if f.breakdown_voltage is None else f.breakdown_voltage)
-    c = bench.gas.constants
-    gamma = bench.yield_().value
+    law = breakdown_law(textbook_bench)
+    c = law.effective_constants
+    gamma = law.gamma
     result = fit_curve(
         np.array(pd),
         np.array(v),
@@ -65,7 +67,7 @@ def calibrate(
         B=c.B,
         gamma=gamma,
         free=free,
-        gas=bench.gas.key,
+        gas=bench.composition,
         cathode=bench.cathode.key,
         fitted_on=today or _dt.date.today().isoformat(),
     )

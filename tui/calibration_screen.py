@@ -51,10 +51,12 @@ class CalibrationScreen(ModalScreen[None]):
 
     def refit(self) -> None:
         from ..model.calibration import FitRefused
+        from ..model.composition import same_composition
         from .calibrate import calibrate, calibration_summary, parse_free
 
         s = self.main.session
-        marks = s.strikes
+        fill = s.bench.composition
+        marks = [m for m in s.strikes if not m.gas or same_composition(m.gas, fill)]  # in this gas fill only
         text = self.query_one("#calib-text", Static)
         pts = [(m.pressure, m.gap, m.voltage, m.gas_temperature) for m in marks]
         labels = [f"mark {i + 1}" for i in range(len(marks))]
@@ -62,7 +64,10 @@ class CalibrationScreen(ModalScreen[None]):
             self.cal = calibrate(replace(s.bench, curve=None), pts, labels, parse_free(self.free))
         except FitRefused as e:
             self.cal = None
-            text.update(Text(f"{len(marks)} strike marks this session (s marks one).\nfit {self.free}: refused: {e}"))
+            other = len(s.strikes) - len(marks)
+            more = f" ({other} more in another gas fill)" if other else ""
+            head = f"{len(marks)} strike marks in {fill} this session{more} (s marks one)."
+            text.update(Text(f"{head}\nfit {self.free}: refused: {e}"))
             return
         text.update(Text(calibration_summary(self.cal), no_wrap=True, overflow="ellipsis"))
         self.draw()

@@ -40,30 +40,29 @@ def live_curve(
     """
     import numpy as np
 
-    from ..model import paschen
-    from ..model.forecast import curve
+    from ..model.breakdown import breakdown_law
 
     if width < 20 or height < 6:
         return None
-    c = bench.gas.constants
-    gamma = bench.yield_().value
+    law = breakdown_law(replace(bench, curve=None))  # the textbook line; a fit is drawn over it
+    gamma = law.gamma
     f = view.forecast if view is not None else None
     T = values["temperature"]
-    scale = c.reference_temperature / T
+    scale = law.reference_temperature / T
     ratio = 1.0
     if f is not None and f.effective_pressure is not None:
         # Magnetised: in 5 % steps, so gauge noise does not redraw an unchanged picture.
         ratio = 10 ** (round(math.log10(f.effective_pressure / f.pressure) * 46) / 46)
     k = scale * ratio  # reduced pd = actual pd * k
-    pd0 = paschen.no_breakdown_pd(c.A, gamma)
-    pd_min, v_min = paschen.minimum(c.A, c.B, gamma)
+    pd0 = law.no_breakdown_pd()
+    pd_min, v_min = law.minimum()
     lo = pd0 * 1.01
     hi = pd_min * 300
     if f is not None:  # the operating point is always on the picture, even left of the asymptote
         lo = min(lo, f.reduced_pd / 2)
         hi = max(hi, f.reduced_pd * 3)
     rpd = np.geomspace(lo, hi, max(width * 2, 60))
-    vb, _w = curve(rpd, replace(bench, curve=None))  # the textbook line; a fit is drawn over it
+    vb, _w = law.voltage(rpd)
     to_x = pd_display(1.0, units)
     point = None
     if f is not None:
@@ -77,7 +76,7 @@ def live_curve(
             None if math.isnan(point[1]) else round(math.log10(point[1]) * height / 4),
         )
     )
-    key = (bench.gas.key, bench.cathode.key, gamma, values["voltage"], units, width, height, bucket, T, ratio)
+    key = (bench.composition, bench.cathode.key, gamma, values["voltage"], units, width, height, bucket, T, ratio)
     key += (bench.curve,)
     inputs = CurveInputs(
         pd=tuple(rpd / k * to_x),
@@ -95,11 +94,12 @@ def live_curve(
 
 
 def _fitted(bench: Bench, rpd, k: float, to_x: float):
-    """(pd, V_b, low, high) of the bench's fitted curve and its band, if it fits this gas and cathode."""
+    """(pd, V_b, low, high) of the bench's fitted curve and its band, if it fits this gas fill and cathode."""
     from ..model.calibration import prediction_band
+    from ..model.forecast import with_bench_curve
 
-    cv = bench.curve
-    if cv is None or cv.gas != bench.gas.key or cv.cathode != bench.cathode.key:
+    _bench, cv = with_bench_curve(bench)
+    if cv is None:
         return None
     v, lo, hi = prediction_band(cv, rpd)
     return tuple(rpd / k * to_x), tuple(v), tuple(lo), tuple(hi)
@@ -110,15 +110,14 @@ def calibration_curve(cal: Calibration, bench: Bench, width: int, height: int, c
     over reduced pd from a third of the lowest mark to three times the highest."""
     import numpy as np
 
-    from ..model import paschen
+    from ..model.breakdown import breakdown_law
     from ..model.calibration import prediction_band
-    from ..model.forecast import curve
 
-    c = bench.gas.constants
-    pd_min, v_min = paschen.minimum(c.A, c.B, bench.yield_().value)
+    law = breakdown_law(replace(bench, curve=None))
+    pd_min, v_min = law.minimum()
     lo, hi = min(cal.pd) / 3, max(cal.pd) * 3
     rpd = np.geomspace(lo, hi, 120)
-    vb, _w = curve(rpd, replace(bench, curve=None))
+    vb, _w = law.voltage(rpd)
     fv, flo, fhi = prediction_band(cal.result.curve, rpd)
     return CurveInputs(
         pd=tuple(rpd),

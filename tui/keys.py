@@ -51,7 +51,7 @@ KEY_HINTS = "p g v type  arrows nudge  u units  s strike  d flags  k calib  ? he
 
 HELP_KEYS = [
     ("p g v t", "type pressure, gap, supply voltage, gas temperature"),
-    ("G  C", "switch gas, switch cathode"),
+    ("G  C", "gas or mixture (argon:80,oxygen:20; flows argon:40sccm,...; 'flows' follows the meters), cathode"),
     ("left right", "choose which value the arrows nudge (marked >)"),
     ("up down", f"nudge it by {(FINE - 1):.0%}"),
     ("PgUp PgDn", f"nudge it by {(COARSE - 1):.0%}"),
@@ -71,7 +71,7 @@ PROMPTS = {
     "gap": "gap, e.g. 30 mm, 3 cm",
     "voltage": "supply voltage, e.g. 600 V, 1.2 kV",
     "temperature": "gas temperature, e.g. 293 K, 20 C",
-    "gas": "gas, e.g. argon, Ar, N2, air, He",
+    "gas": "gas or mixture, e.g. argon, argon:80,oxygen:20, argon:40sccm,oxygen:8sccm, or flows",
     "cathode": "cathode, e.g. Cu, Al, stainless, Ti, Mo, W",
 }
 

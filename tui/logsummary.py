@@ -10,12 +10,13 @@ from ..drivers.logbook import LogRead
 
 __all__ = ["STRIKE_COLUMNS", "strike_rows", "summarise"]
 
-STRIKE_COLUMNS = ("pressure_Pa", "gap_m", "voltage_V")
-"""The calibration CSV's columns (``strikeline fit`` reads them)."""
+STRIKE_COLUMNS = ("pressure_Pa", "gap_m", "voltage_V", "gas")
+"""The calibration CSV's columns (``strikeline fit`` reads them; it skips strikes in another gas fill)."""
+_NEEDED = STRIKE_COLUMNS[:3]
 
 
 def summarise(log: LogRead) -> dict[str, Any]:
-    """Span, readings per channel, gaps and faults, strike marks and flag changes."""
+    """Span, readings per channel, gaps and faults, strike marks, flag changes and gas fill changes."""
     recs = log.records
     times = [r["t_unix"] for r in recs if "t_unix" in r]
     header = next((r for r in recs if r.get("kind") == "session"), {})
@@ -60,15 +61,31 @@ def summarise(log: LogRead) -> dict[str, Any]:
         "connections": sum(1 for e in events if e.get("event") == "connected"),
         "strikes": [r for r in recs if r.get("kind") == "strike"],
         "flag_changes": [r for r in recs if r.get("kind") == "flag"],
+        "fills": _fill_changes(header, recs),
         "skipped": [{"line": line, "why": why} for line, why in log.skipped],
         "torn_tail": log.torn_tail,
     }
 
 
-def strike_rows(log: LogRead) -> list[dict[str, float]]:
-    """The strike marks as calibration CSV rows (SI)."""
+def _fill_changes(header: dict[str, Any], recs: list[dict[str, Any]]) -> list[dict[str, Any]]:
+    """The gas fill at the start and every change of it (typed, or from the flow meters)."""
+    out = []
+    if header.get("gas"):
+        out.append({"t": header.get("t"), "composition": header["gas"], "source": "profile", "flows_Pa_m3_s": {}})
+    for r in recs:
+        if r.get("kind") == "fill":
+            if out and out[-1]["composition"] == r["composition"]:
+                continue
+            out.append(
+                {k: r.get(k) for k in ("t", "composition", "source")} | {"flows_Pa_m3_s": r.get("flows_Pa_m3_s", {})}
+            )
+    return out
+
+
+def strike_rows(log: LogRead) -> list[dict[str, Any]]:
+    """The strike marks as calibration CSV rows (SI), each with its gas fill (empty if not recorded)."""
     return [
-        {k: r[k] for k in STRIKE_COLUMNS}
+        {k: r[k] for k in _NEEDED} | {"gas": r.get("gas", "")}
         for r in log.records
-        if r.get("kind") == "strike" and all(k in r for k in STRIKE_COLUMNS)
+        if r.get("kind") == "strike" and all(k in r for k in _NEEDED)
     ]

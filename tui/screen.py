@@ -236,10 +236,14 @@ class StrikelineApp(KeyActions, App[None]):
 
     def _draw_title(self) -> None:
         b = self.session.bench
-        gamma = b.yield_().value
+        f = None if self.view_ is None else self.view_.forecast
+        gamma = b.yield_().value if f is None else f.gamma  # a mixture's is the forecast's
         t = Text()
         t.append("strikeline ", style="bold")
-        t.append(f"{self.session.profile.label} | {b.gas.key} / {b.cathode.key} | gamma {gamma:.3g} | {self.units}")
+        t.append(f"{self.session.profile.label} | {b.composition} / {b.cathode.key} | gamma {gamma:.3g} | {self.units}")
+        note = None if self.view_ is None else self.view_.fill_note
+        if note is not None:
+            t.append(f" | gas held: {note}", style="bold")
         if self.paused:
             t.append(" | PAUSED", style="bold reverse")
         if self.logbook_trouble:

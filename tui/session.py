@@ -20,7 +20,9 @@ from ..model import units
 from ..model.bench import OperatingPoint
 from ..model.gauges import correct
 from ..model.limits import LIMITS, parse_within
-from ..profiles.loader import BenchProfile, find_cathode, find_gas, gauge_correction
+from ..profiles.fill import Fill, read_fill, with_fill
+from ..profiles.loader import BenchProfile, find_cathode, gauge_correction
+from .fillwatch import STEADY_STATE, FillWatch
 
 if TYPE_CHECKING:  # the numeric model loads with the first forecast, not with the screen
     from ..model.forecast import Flag, Forecast
@@ -52,6 +54,8 @@ class StrikeMark:
     source: str
     """Where the pressure came from: a channel name or "manual"."""
     note: str = ""
+    gas: str = ""
+    """The gas fill's composition key when the mark was made."""
 
 
 @dataclass(frozen=True)
@@ -78,6 +82,8 @@ class View:
     withdrawn: str | None
     flag_changes: tuple[tuple[str, Flag], ...] = ()
     """("raised" or "cleared", flag) since the previous view; a level change counts as raised."""
+    fill_note: str | None = None
+    """Why the flow meters do not set the gas fill now (None: they do, or none are named)."""
 
 
 class Session:
@@ -113,6 +119,13 @@ class Session:
         }
         self.gauges = dict(profile.gauges)
         """Gas correction by channel, for the gas in use (it follows a change of gas)."""
+        self.fills = FillWatch({} if manual else profile.flows)
+        self.follow_flows = bool(self.fills)
+        """The gas fill follows the flow meters (until the operator types one)."""
+        self.typed_flows: tuple = ()
+        """Flows the operator typed with the gas fill ("argon:40 sccm,oxygen:8 sccm")."""
+        self.fill_note: str | None = None
+        """Why the flow meters cannot set the fill now (None: they do, or the fill is typed)."""
         self.strikes: list[StrikeMark] = []
         self._out_of_limits: set[str] = set()
         self._flags: dict[str, Flag] = {}
@@ -213,17 +226,47 @@ class Session:
         self._entry("pressure", "gauge", True, "")
         return True
 
-    def set_gas(self, name: str) -> str | None:
-        """Switch gas; the gauges' corrections follow it (a factor set by hand stays)."""
+    def set_gas(self, text: str) -> str | None:
+        """Switch the gas fill to a typed gas or mixture, or back to the flow meters ("flows"); the
+        gauges' corrections follow it (a factor set by hand stays)."""
+        if text.strip().casefold() == "flows":
+            if not self.fills:
+                err = "this bench profile names no flow channels ([flows] channels); type a gas or a mixture"
+                self._entry("gas", text, False, err)
+                return err
+            self.follow_flows, self.typed_flows = True, ()
+            self._entry("gas", text, True, "")
+            return None
         try:
-            gas = find_gas(name)
+            fill = read_fill(text)
         except ValueError as e:
-            self._entry("gas", name, False, str(e))
+            self._entry("gas", text, False, str(e))
             return str(e)
-        self.bench = replace(self.bench, gas=gas, curve=None)
-        self.gauges = {ch: c if c.overridden else gauge_correction(c.kind, gas) for ch, c in self.gauges.items()}
-        self._entry("gas", name, True, "")
+        self.follow_flows, self.typed_flows = False, fill.flows
+        self._entry("gas", text, True, "")
+        self._use_fill(fill, "typed")
         return None
+
+    def _use_fill(self, fill: Fill, source: str) -> None:
+        self.bench = with_fill(self.bench, fill)
+        what = fill.mixture or fill.gas
+        self.gauges = {ch: c if c.overridden else gauge_correction(c.kind, what) for ch, c in self.gauges.items()}
+        if self.logbook is not None:
+            flows = {g.key: q for g, q in fill.flows}
+            note = STEADY_STATE if source == "flows" else ""
+            self.logbook.write("fill", composition=fill.key, source=source, flows_Pa_m3_s=flows, note=note)
+
+    def flows_now(self, now: float) -> tuple:
+        """The gas flows for the forecast; a change of fill from the flow meters is taken in here, and
+        why they cannot set it kept in :attr:`fill_note`."""
+        self.fill_note = None
+        if not self.follow_flows:
+            return self.typed_flows
+        f = self.fills.now(self.latest, now)
+        if f.fill is not None and f.fill.key != self.bench.composition:
+            self._use_fill(f.fill, "flows")
+        self.fill_note = f.why_not
+        return f.flows
 
     def set_cathode(self, name: str) -> str | None:
         try:
@@ -268,10 +311,18 @@ class Session:
         return PressureNow(value, r.value, str(r.status), approx, r.channel, None)
 
     def point(self, now: float) -> tuple[OperatingPoint | None, PressureNow]:
+        flows = self.flows_now(now)  # first: the fill sets the gauges' gas correction
         p = self.pressure_now(now)
         if p.value is None:
             return None, p
-        return OperatingPoint(p.value, self.values["gap"], self.values["voltage"], self.values["temperature"]), p
+        v = self.values
+        return OperatingPoint(p.value, v["gap"], v["voltage"], v["temperature"], flows, self._current(now)), p
+
+    def _current(self, now: float) -> float | None:
+        """The discharge current a current channel reads now (None: none, or not usable)."""
+        ch = next((c for c in self.channels.values() if c.quantity == "current"), None)
+        r = None if ch is None else self.latest.get(ch.name, now)
+        return r.value if r is not None and r.usable and r.value > 0 else None
 
     def view(self, now: float | None = None) -> View:
         """The forecast now, or why it is withdrawn; logs changes."""
@@ -284,7 +335,7 @@ class Session:
             f = forecast(point, self.bench)
         withdrawn = p.withdrawn
         changes = self._log_changes(now, f, withdrawn)
-        return View(p, f, withdrawn, changes)
+        return View(p, f, withdrawn, changes, self.fill_note)
 
     def _log_changes(self, now: float, f: Forecast | None, withdrawn: str | None) -> tuple[tuple[str, Flag], ...]:
         flags = {} if f is None else {x.code: x for x in f.flags}
@@ -305,7 +356,7 @@ class Session:
         )
         if self.logbook is not None and (key != self._summary or now - self._summary_at >= self.heartbeat):
             self._summary, self._summary_at = key, now
-            rec = {"withdrawn": withdrawn}
+            rec = {"withdrawn": withdrawn, "gas": self.bench.composition}
             if f is not None:
                 rec |= {
                     "pressure_Pa": f.pressure,
@@ -335,7 +386,16 @@ class Session:
                 voltage = r.value  # the supply's read-back is what was across the gap
         if voltage is None:
             return "cannot mark a strike: no voltage set (type one, e.g. 600V)"
-        mark = StrikeMark(self.wall(), point.pressure, point.gap, voltage, point.gas_temperature, p.source, note)
+        mark = StrikeMark(
+            self.wall(),
+            point.pressure,
+            point.gap,
+            voltage,
+            point.gas_temperature,
+            p.source,
+            note,
+            self.bench.composition,
+        )
         self.strikes.append(mark)
         if self.logbook is not None:
             self.logbook.write(
@@ -345,7 +405,7 @@ class Session:
                 voltage_V=mark.voltage,
                 gas_temperature_K=mark.gas_temperature,
                 pressure_source=mark.source,
-                gas=self.bench.gas.key,
+                gas=self.bench.composition,
                 cathode=self.bench.cathode.key,
                 note=note,
             )

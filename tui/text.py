@@ -5,7 +5,6 @@ from __future__ import annotations
 from typing import TYPE_CHECKING, Any
 
 from ..drivers.logbook import iso_utc
-from ..model import constants as _c
 from ..model.units import format_value
 
 if TYPE_CHECKING:
@@ -58,6 +57,7 @@ def forecast_text(f: Forecast, system: str = "SI") -> str:
             f"{f.gas} / {f.cathode}   gamma {f.gamma:.3g} (range {f.gamma_range[0]:.2g}-{f.gamma_range[1]:.2g})",
         ),
         ("pressure", format_value(f.pressure, "pressure", pu)),
+        *mixture_rows(f, pu),
         ("gap", format_value(f.gap, "length", lu)),
         ("gas temperature", f"{f.gas_temperature:.1f} K (constants at {f.reference_temperature:.2f} K)"),
         ("pd", f"{pd_text(f.pd, system)}   reduced {pd_text(f.reduced_pd, system)}"),
@@ -123,6 +123,7 @@ def forecast_text(f: Forecast, system: str = "SI") -> str:
                 f"{ll.voltage:.0f} V{cover} (limited by the {ll.limited_by.replace('_', ' ')})",
             )
         )
+    rows += reactive_rows(f)
     if f.afterglow is not None:
         a = f.afterglow
         left = "" if a.residual_fraction is None else f", {a.residual_fraction:.0%} left after the off-time"
@@ -146,6 +147,43 @@ def forecast_text(f: Forecast, system: str = "SI") -> str:
     lines.append(f"gamma: {f.gamma_source}")
     lines.append("Advisory only: strikeline controls nothing. High voltage can kill.")
     return "\n".join(lines)
+
+
+def mixture_rows(f: Forecast, pu: str) -> list[tuple[str, str]]:
+    """What a mixture (or an attaching gas) adds: its make-up, the attachment limit, the expected
+    partial pressures."""
+    rows = []
+    if len(f.composition) > 1:
+        parts = " + ".join(f"{100 * x:.3g} % {g}" for g, x in f.composition)
+        rows.append(("mixture", f"{parts} (linear mixing; band widened, see flags)"))
+    if f.critical_E_over_N_Td is not None:
+        eta = "" if f.eta is None else f"; eta here {_g(f.eta)} /m"
+        rows.append(("attachment", f"alpha = eta at {f.critical_E_over_N_Td:.0f} Td{eta}"))
+    if f.partial_pressures:
+        rows.append(
+            (
+                "expected partials",
+                ", ".join(f"{g} {format_value(p, 'pressure', pu)}" for g, p in f.partial_pressures)
+                + " (flow / pumping speed, steady state)",
+            )
+        )
+    return rows
+
+
+def reactive_rows(f: Forecast) -> list[tuple[str, str]]:
+    """The target mode and the charging of its film."""
+    rows = []
+    if f.target is not None:
+        t = f.target
+        if t.mode == "unclear":
+            rows.append(("target mode", "not judged: the gauge and the flows disagree (see flags)"))
+        else:
+            rows.append(("target mode", f"{t.mode}: {t.consumed:.0%} of the {' and '.join(t.reactive)} consumed"))
+    if f.charging is not None:
+        c = f.charging
+        on = "DC (always on)" if c.on_time is None else f"on-time {_g(c.on_time * 1e6)} us"
+        rows.append(("film charging", f"{c.film} to breakdown in {_g(c.time * 1e6)} us; {on}"))
+    return rows
 
 
 _READING_UNITS = {"pressure": "Pa", "voltage": "V", "current": "mA", "flow": "sccm"}
@@ -209,86 +247,6 @@ def reading_text(r, corr=None, labels: dict[int, str] | None = None) -> str:
     return f"{iso_utc(r.t_wall)[11:23]}  {r.channel:<16} {shown:>14}  {r.status}{extra}"
 
 
-def gases_json() -> dict[str, Any]:
-    """Gas and cathode data in SI, with sources."""
-    from ..model import paschen
-    from ..profiles.loader import cathodes, gases, unsupported_gases
-
-    out_g = []
-    for g in gases().values():
-        c = g.constants
-        pd_min, v_min = paschen.minimum(c.A, c.B, 0.01)
-        out_g.append(
-            {
-                "name": g.key,
-                "symbol": g.symbol,
-                "A_per_Pa_m": c.A,
-                "B_V_per_Pa_m": c.B,
-                "E_over_p_range_V_per_Pa_m": [c.E_over_p_low, c.E_over_p_high],
-                "reference_temperature_K": c.reference_temperature,
-                "source": c.source,
-                "minimum_at_gamma_0.01": {"pd_Pa_m": pd_min, "voltage_V": v_min},
-                "ionisation_energy_eV": g.ionisation_energy,
-                "ion_mobility_m2_per_V_s": g.ion_mobility,
-                "ion_mobility_source": g.ion_mobility_source,
-                "uniform_field_law": None if g.law is None else {"source": g.law.source},
-            }
-        )
-    seen = set()
-    unsupported = []
-    for name, reason in unsupported_gases().items():
-        if reason not in seen:
-            seen.add(reason)
-            unsupported.append({"name": name, "reason": reason})
-    gas_list = list(gases().values())
-    out_c = []
-    for cat in cathodes().values():
-        out_c.append(
-            {
-                "name": cat.key,
-                "symbol": cat.symbol,
-                "work_function_eV": cat.work_function,
-                "note": cat.note,
-                "gamma": {
-                    g.key: {"value": y.value, "range": [y.low, y.high], "source": y.source}
-                    for g in gas_list
-                    for y in [cat.yield_for(g)]
-                },
-            }
-        )
-    return {"gases": out_g, "unsupported": unsupported, "cathodes": out_c}
-
-
-def gases_text() -> str:
-    """Gas and cathode tables as ``strikeline gases`` prints them."""
-    d = gases_json()
-    per = 1.0 / (_c.centi * _c.torr)
-    lines = ["gases (A, B per cm Torr; minimum at gamma 0.01)", ""]
-    lines.append(f"  {'gas':<15} {'A':>6} {'B':>6} {'E/p range':>11} {'V_min':>7} {'pd_min':>13}  source")
-    for g in d["gases"]:
-        lo, hi = g["E_over_p_range_V_per_Pa_m"]
-        m = g["minimum_at_gamma_0.01"]
-        lines.append(
-            f"  {g['symbol'] + ' ' + ('' if g['symbol'].casefold() == g['name'] else g['name']):<15} "
-            f"{g['A_per_Pa_m'] / per:>6.3g} {g['B_V_per_Pa_m'] / per:>6.4g} "
-            f"{f'{lo / per:.0f}-{hi / per:.0f}':>11} {m['voltage_V']:>5.0f} V "
-            f"{m['pd_Pa_m'] / (_c.torr * _c.centi):>5.3g} Torr cm  {g['source']}"
-        )
-        if g["uniform_field_law"]:
-            lines.append(f"  {'':<15} high pd: {g['uniform_field_law']['source']}")
-    for u in d["unsupported"]:
-        lines.append(f"  {u['name']:<15} not supported: {u['reason']}")
-    lines += ["", "cathodes (gamma by gas)", ""]
-    for c in d["cathodes"]:
-        note = f"  ({c['note']})" if c["note"] else ""
-        lines.append(f"  {c['symbol']} {c['name']}, work function {c['work_function_eV']:g} eV{note}")
-        for gas, y in c["gamma"].items():
-            lines.append(
-                f"      {gas:<15} {y['value']:<7.3g} range {y['range'][0]:.2g}-{y['range'][1]:.2g}  {y['source']}"
-            )
-    return "\n".join(lines)
-
-
 def log_summary_text(s: dict[str, Any]) -> str:
     """A logbook summary as ``strikeline log`` prints it."""
     lines = [f"bench {s['bench'] or '(not named)'}: {s['records']} records over {s['span_s']:.1f} s"]
@@ -309,6 +267,10 @@ def log_summary_text(s: dict[str, Any]) -> str:
         lines.append(
             f"  {m['t'][11:23]}  {m['pressure_Pa']:.4g} Pa, gap {m['gap_m'] * 1e3:.4g} mm, {m['voltage_V']:.0f} V"
         )
+    lines.append(f"gas fill ({len(s['fills'])})")
+    for fl in s["fills"]:
+        when = "start" if fl["source"] == "profile" else (fl["t"] or "?")[11:23]
+        lines.append(f"  {when:<12}  {fl['composition']} ({fl['source']})")
     lines.append(f"flag changes ({len(s['flag_changes'])})")
     for f in s["flag_changes"]:
         lines.append(f"  {f['t'][11:23]}  {f['change']:<7} {f['level']:<6} {f['code']}: {f['reason']}")

@@ -8,6 +8,8 @@ The device answers our own invented line protocol (terminator CR LF):
                                         indicates it (true pressure / gauge_factor)
     MEAS U1  ->  U1,OK,1.200E+03       supply voltage read-back, V
     MEAS I1  ->  I1,OK,2.10E+01        supply current read-back, mA
+    MEAS F1  ->  F1,OK,4.00E+01        argon flow, sccm      (the reactive variant: pumping=<l/s>
+    MEAS F2  ->  F2,OK,6.00E+00        oxygen flow, sccm      in the URL)
     anything else -> ERR
 
 Scenario time runs from the moment the port is opened, ``speed`` times faster than real
@@ -22,7 +24,7 @@ import urllib.parse
 
 from serial.serialutil import PortNotOpenError, SerialBase, SerialException
 
-from ..sim import Scenario, pressure_at, supply_at
+from ..sim import Scenario, flows_at, pressure_at, supply_at
 
 __all__ = ["Serial"]
 
@@ -56,11 +58,18 @@ class Serial(SerialBase):
             setpoint = float(q.get("setpoint", ["20"])[0])
             drop = float(q["drop_after"][0]) if "drop_after" in q else None
             voltage = float(q.get("voltage", ["1200"])[0])
+            current = float(q.get("current", ["0.021"])[0])
+            pumping = float(q["pumping"][0]) * 1e-3 if "pumping" in q else None
         except ValueError as e:
             raise SerialException(f"bad simbench URL {url!r}: {e}") from None
-        if speed <= 0 or factor <= 0 or setpoint <= 0:
-            raise SerialException(f"bad simbench URL {url!r}: speed, gauge_factor and setpoint must be above zero")
-        return Scenario(setpoint=setpoint, seed=seed, supply_voltage=voltage), speed, factor, drop
+        if speed <= 0 or factor <= 0 or setpoint <= 0 or (pumping is not None and pumping <= 0):
+            raise SerialException(
+                f"bad simbench URL {url!r}: speed, gauge_factor, setpoint and pumping must be above zero"
+            )
+        sc = Scenario(
+            setpoint=setpoint, seed=seed, supply_voltage=voltage, supply_current=current, pumping_speed=pumping
+        )
+        return sc, speed, factor, drop
 
     def close(self):
         self.is_open = False
@@ -83,6 +92,9 @@ class Serial(SerialBase):
             return f"U1,OK,{supply_at(t, self._scenario)[0]:.3E}\r\n".encode()
         if cmd == "MEAS I1":
             return f"I1,OK,{supply_at(t, self._scenario)[1] * 1e3:.2E}\r\n".encode()
+        if cmd in ("MEAS F1", "MEAS F2") and self._scenario.pumping_speed is not None:
+            n = int(cmd[-1])
+            return f"F{n},OK,{flows_at(t, self._scenario)[n - 1]:.3E}\r\n".encode()
         return b"ERR\r\n"
 
     @property

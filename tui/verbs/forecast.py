@@ -10,7 +10,7 @@ from ...model import units
 from ...model.limits import check, parse_within
 from ...model.units import QuantityError
 from ..outputs import print_json
-from .parser import UsageError, add_verb, count, number, quantity
+from .parser import UsageError, add_gas, add_verb, count, number, quantity
 
 __all__ = ["add_curve", "add_gases", "add_strike", "bench_for"]
 
@@ -18,8 +18,10 @@ UNIT_CHOICES = ("SI", "mbar", "Torr")
 
 
 def _common_point(s: argparse.ArgumentParser) -> None:
-    s.add_argument("--bench", metavar="FILE", help="bench profile (.toml), or 'demo' / 'demo-magnetron'")
-    s.add_argument("--gas", help="gas name or symbol, e.g. argon, Ar, N2, air (default: the bench's)")
+    s.add_argument(
+        "--bench", metavar="FILE", help="bench profile (.toml), or 'demo' / 'demo-magnetron' / 'demo-reactive'"
+    )
+    add_gas(s)
     s.add_argument("--cathode", help="cathode metal, e.g. Cu, Al, stainless (default: the bench's)")
     s.add_argument(
         "--gamma",
@@ -44,9 +46,29 @@ def add_strike(sub) -> None:
         metavar="V",
         help="applied voltage, e.g. 600V (default: the bench supply's)",
     )
+    s.add_argument(
+        "--current",
+        type=quantity("current"),
+        metavar="I",
+        help="discharge current, e.g. '2 A' (default: the load line's), for charging arcs on a target film",
+    )
+    s.add_argument(
+        "--pumping-speed",
+        type=quantity("pumping_speed"),
+        metavar="S",
+        help="pumping speed at the chamber, e.g. '250 l/s' (default: the bench's); with --gas given as flows "
+        "it gives the target mode",
+    )
+    s.add_argument("--film", help="film a reactive process grows on the target: " + ", ".join(_film_names()))
     s.add_argument("--units", choices=UNIT_CHOICES, default="SI", help="units of the text output")
     s.add_argument("--json", action="store_true", help="print the forecast as JSON (SI units)")
     s.set_defaults(run=cmd_strike)
+
+
+def _film_names() -> tuple[str, ...]:
+    from ...profiles.fill import films
+
+    return tuple(films())
 
 
 def add_curve(sub) -> None:
@@ -80,13 +102,20 @@ def add_gases(sub) -> None:
 
 def bench_for(args: argparse.Namespace, *, need_gap: bool):
     """The bench the verb works on: a profile, or one built from --gas/--cathode."""
-    from ...model.bench import Bench
-    from ...profiles.loader import find_cathode, find_gas, load_bench
+    return bench_and_flows(args, need_gap=need_gap)[0]
 
+
+def bench_and_flows(args: argparse.Namespace, *, need_gap: bool):
+    """The bench the verb works on, and the flows --gas gave ((gas, Pa m^3/s), ...; empty for parts)."""
+    from ...model.bench import Bench
+    from ...profiles.fill import read_fill, with_fill
+    from ...profiles.loader import find_cathode, load_bench
+
+    fill = None if args.gas is None else read_fill(args.gas)
     if args.bench is not None:
         bench = load_bench(args.bench).bench
-        if args.gas is not None:
-            bench = replace(bench, gas=find_gas(args.gas), curve=None)
+        if fill is not None:
+            bench = with_fill(bench, fill)
         if args.cathode is not None:
             bench = replace(bench, cathode=find_cathode(args.cathode), gamma=None, curve=None)
     else:
@@ -96,27 +125,33 @@ def bench_for(args: argparse.Namespace, *, need_gap: bool):
         gap = getattr(args, "gap", None)
         if need_gap and gap is None:
             raise UsageError(f"strikeline {args.verb}: --gap needed without --bench, e.g. --gap 40mm")
-        bench = Bench(name="command line", gas=find_gas(args.gas), cathode=find_cathode(args.cathode), gap=gap or 1.0)
+        bench = Bench(name="command line", gas=fill.gas, cathode=find_cathode(args.cathode), gap=gap or 1.0)
+        bench = with_fill(bench, fill)
     gamma = getattr(args, "gamma", None)  # verbs without the option (fit) simply have none
     if gamma is not None:
         bench = replace(bench, gamma=gamma)
     temperature = getattr(args, "temperature", None)
     if temperature is not None:
         bench = replace(bench, gas_temperature=temperature)
-    return bench
+    return bench, () if fill is None else fill.flows
 
 
 def cmd_strike(args: argparse.Namespace) -> int:
     from ...model.bench import OperatingPoint
     from ...model.forecast import forecast
+    from ...profiles.fill import find_film
     from ..text import forecast_text
 
-    bench = bench_for(args, need_gap=True)
+    bench, flows = bench_and_flows(args, need_gap=True)
+    if args.pumping_speed is not None:
+        bench = replace(bench, pumping_speed=args.pumping_speed)
+    if args.film is not None:
+        bench = replace(bench, film=find_film(args.film))
     pressure = args.pressure if args.pressure is not None else bench.pressure
     if pressure is None:
         raise UsageError("strikeline strike: --pressure needed, e.g. --pressure '0.5 Pa'")
     gap = args.gap if args.gap is not None else bench.gap
-    point = OperatingPoint(pressure, gap, args.voltage, bench.gas_temperature)
+    point = OperatingPoint(pressure, gap, args.voltage, bench.gas_temperature, flows, args.current)
     f = forecast(point, bench)
     if args.json:
         print_json(f.to_json())
@@ -128,14 +163,13 @@ def cmd_strike(args: argparse.Namespace) -> int:
 def cmd_curve(args: argparse.Namespace) -> int:
     import numpy as np
 
-    from ...model import paschen
+    from ...model.breakdown import breakdown_law
     from ...model.forecast import with_bench_curve
 
     bench, fitted = with_bench_curve(bench_for(args, need_gap=False))
-    c = bench.gas.constants
-    gamma = bench.yield_().value
-    scale = c.reference_temperature / bench.gas_temperature
-    pd_min, _ = paschen.minimum(c.A, c.B, gamma)
+    law = breakdown_law(bench)
+    scale = law.reference_temperature / bench.gas_temperature
+    pd_min, _ = law.minimum()
     gap = args.gap  # a pd sweep unless --gap is given, even with a bench...
     if gap is None and bench.magnetic_field is not None:
         gap = bench.gap  # ...but a magnetised cathode's effective pressure needs p itself
@@ -163,7 +197,7 @@ def cmd_curve(args: argparse.Namespace) -> int:
         raise UsageError(
             f"strikeline curve: --from must be below --to (got {lo:g} and {hi:g} {'Pa' if gap else 'Pa m'})"
         )
-    from ...model.forecast import curve, effective_pressure, law_name
+    from ...model.forecast import effective_pressure, law_name
 
     xs = np.geomspace(lo, hi, args.points)
     pd = xs * gap if gap is not None else xs
@@ -171,8 +205,8 @@ def cmd_curve(args: argparse.Namespace) -> int:
     if bench.magnetic_field is not None:
         p_eff, _hall = effective_pressure(xs, bench.gas_temperature, bench)
         rpd = p_eff * gap * scale
-    vb, w = curve(rpd, bench)
-    br = paschen.branch(rpd, c.A, gamma)
+    vb, w = law.voltage(rpd)
+    br = law.branch(rpd)
     out = sys.stdout
     cols = (["pressure_Pa", "gap_m"] if what == "pressure" else []) + [
         "pd_Pa_m",
@@ -182,7 +216,7 @@ def cmd_curve(args: argparse.Namespace) -> int:
         "law",
         "constants",
     ]
-    source = "bench-curve" if fitted is not None else "textbook"
+    source = "bench-curve" if fitted is not None else ("mixed" if law.mixture is not None else "textbook")
     out.write(",".join(cols) + "\n")
     for i in range(len(xs)):
         v = "" if not np.isfinite(vb[i]) else f"{vb[i]:.10g}"
@@ -199,7 +233,7 @@ def cmd_curve(args: argparse.Namespace) -> int:
 
 
 def cmd_gases(args: argparse.Namespace) -> int:
-    from ..text import gases_json, gases_text
+    from ..gastext import gases_json, gases_text
 
     if args.json:
         print_json(gases_json())

@@ -9,7 +9,7 @@ from pathlib import Path
 
 from ..outputs import print_json
 from .forecast import UNIT_CHOICES
-from .parser import UsageError, add_verb, count, number, quantity
+from .parser import UsageError, add_gas, add_verb, count, number, quantity
 
 __all__ = ["add_gauge", "add_live", "add_record", "sim_ports"]
 
@@ -24,6 +24,7 @@ def add_live(sub) -> None:
         "logbook (--replay). Every session is logged. Press ? on the screen for the keys.",
     )
     lv.add_argument("--bench", metavar="FILE", default="demo", help="bench profile (.toml), or 'demo' (default)")
+    add_gas(lv)
     lv.add_argument("--manual", action="store_true", help="no instruments: type pressure, gap and voltage")
     lv.add_argument("--sim", action="store_true", help="read the simulated bench instead of the profile's ports")
     lv.add_argument("--replay", metavar="PATH", help="play a logbook back through the screen")
@@ -48,6 +49,7 @@ def add_gauge(sub) -> None:
         "pressure beside the indicated value), to check the wiring before opening the screen.",
     )
     ga.add_argument("--bench", metavar="FILE", required=True, help="bench profile (.toml), or 'demo'")
+    add_gas(ga)
     ga.add_argument(
         "--samples", type=count(1, 10**9, "a number of readings"), default=10, help="stop after this many readings"
     )
@@ -71,6 +73,7 @@ def add_record(sub) -> None:
         "The logbook is flushed per record and synced every second: a crash loses at most the last second.",
     )
     r.add_argument("--bench", metavar="FILE", required=True, help="bench profile (.toml), or 'demo'")
+    add_gas(r)
     r.add_argument(
         "--seconds",
         type=quantity("duration", bare_unit="s"),
@@ -122,13 +125,21 @@ def sim_ports(profile):
     return replace(profile, ports=ports, gauges=gauges)
 
 
+def _profile(args: argparse.Namespace):
+    """The bench profile, with the gas fill of --gas if given (the gauges' corrections follow it)."""
+    from ...profiles.fill import read_fill
+    from ...profiles.loader import load_bench, with_profile_fill
+
+    profile = load_bench(args.bench)
+    return profile if args.gas is None else with_profile_fill(profile, read_fill(args.gas))
+
+
 def cmd_live(args: argparse.Namespace) -> int:
     from ...drivers.logbook import refuse_foreign
-    from ...profiles.loader import load_bench
     from ..app import make_app
     from ..logread import read_log, skipped_text
 
-    profile = load_bench(args.bench)
+    profile = _profile(args)
     replay = None
     notes: list[str] = []
     if args.replay is not None:
@@ -157,6 +168,8 @@ def cmd_live(args: argparse.Namespace) -> int:
         units=args.units,
         notes=notes,
     )
+    if args.gas is not None:
+        app.session.set_gas(args.gas)  # typed: it holds against the flow meters until "flows" is typed
     app.run()
     if app.session.logbook is not None:
         print(f"strikeline: logbook {app.session.logbook.path}", file=sys.stderr)
@@ -168,10 +181,9 @@ def cmd_gauge(args: argparse.Namespace) -> int:
     import time
 
     from ...drivers.hub import Instruments
-    from ...profiles.loader import load_bench
     from ..text import reading_json, reading_text
 
-    profile = load_bench(args.bench)
+    profile = _profile(args)
     if not profile.ports:
         raise UsageError(f"strikeline gauge: bench {profile.label!r} has no [[port]] section: nothing to read")
     q: queue.Queue = queue.Queue()
@@ -216,11 +228,10 @@ def cmd_record(args: argparse.Namespace) -> int:
 
     from ...drivers.hub import Instruments
     from ...drivers.logbook import Logbook
-    from ...profiles.loader import load_bench
     from ..locations import new_logbook_path
     from ..session import Session
 
-    profile = load_bench(args.bench)
+    profile = _profile(args)
     if not profile.ports:
         raise UsageError(f"strikeline record: bench {profile.label!r} has no [[port]] section: nothing to record")
     path = Path(args.log) if args.log is not None else new_logbook_path(profile.bench.name, time.time())
@@ -228,9 +239,15 @@ def cmd_record(args: argparse.Namespace) -> int:
     book = Logbook(path, on_error=errors.append)
     # Checked before anything starts: a logbook that cannot be written ends here, in one line.
     book.open(
-        strict=True, bench=profile.label, gas=profile.bench.gas.key, cathode=profile.bench.cathode.key, mode="record"
+        strict=True,
+        bench=profile.label,
+        gas=profile.bench.composition,
+        cathode=profile.bench.cathode.key,
+        mode="record",
     )
     session = Session(profile, logbook=book)
+    if args.gas is not None:
+        session.set_gas(args.gas)
     q: queue.Queue = queue.Queue()
     inst = Instruments(profile.ports, q.put, lambda port, kind, msg: q.put((port, kind, msg)))
     print(f"strikeline record: logging {profile.label} to {path} for {args.seconds:g} s", file=sys.stderr)

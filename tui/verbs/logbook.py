@@ -7,7 +7,7 @@ import sys
 
 from ..outputs import check_output_file, print_json, write_file
 from .forecast import bench_for
-from .parser import UsageError, add_verb
+from .parser import UsageError, add_gas, add_verb
 
 __all__ = ["add_fit", "add_log"]
 
@@ -19,11 +19,13 @@ def add_fit(sub) -> None:
         "fit this bench's breakdown curve to recorded strikes",
         "Fit Paschen's law to strikes recorded on this bench (CSV with pressure, gap and voltage columns; "
         "units in the header or the cells). A and gamma only appear together in the law, so fit A,B "
-        "(default) or B,gamma. --save writes the curve into a bench profile; strike and the screen then use it.",
+        "(default) or B,gamma. A mixture is fitted as one gas fill: its fitted A, B, gamma stand for the whole "
+        "mixture at that composition, and a gas column leaves out strikes made in another fill. --save writes "
+        "the curve into a bench profile; strike and the screen then use it.",
     )
     ft.add_argument("points", metavar="POINTS.csv", help="strike points (strikeline log --strikes writes one)")
     ft.add_argument("--bench", metavar="FILE", help="take gas, cathode and gas temperature from this bench")
-    ft.add_argument("--gas", help="gas name or symbol (default: the bench's)")
+    add_gas(ft)
     ft.add_argument("--cathode", help="cathode metal (default: the bench's)")
     ft.add_argument("--free", default="A,B", help="which of A, B, gamma to fit (default A,B)")
     ft.add_argument("--save", metavar="BENCH", help="write the fitted curve into this bench profile")
@@ -46,6 +48,7 @@ def add_log(sub) -> None:
 
 def cmd_fit(args: argparse.Namespace) -> int:
     from ...model.calibration import FitRefused
+    from ...model.composition import same_composition
     from ...profiles.loader import save_curve
     from ...profiles.strikes import read_strike_csv
     from ..calibrate import calibrate, calibration_json, calibration_text, parse_free
@@ -58,19 +61,26 @@ def cmd_fit(args: argparse.Namespace) -> int:
         table = read_strike_csv(args.points)
     except ValueError as e:
         raise UsageError(f"strikeline fit: {e}") from None
-    if not table.points:
-        raise UsageError(f"strikeline fit: {args.points!r}: no usable rows ({'; '.join(table.problems) or 'empty'})")
-    pts = [(p.pressure, p.gap, p.voltage, p.temperature) for p in table.points]
-    labels = [f"line {p.line}" for p in table.points]
+    problems = list(table.problems)
+    points = []
+    for p in table.points:  # a strike made in another gas fill says nothing of this one's curve
+        if p.gas is not None and not same_composition(p.gas, bench.composition):
+            problems.append(f"line {p.line}: made in {p.gas}, not {bench.composition}; row skipped")
+        else:
+            points.append(p)
+    if not points:
+        raise UsageError(f"strikeline fit: {args.points!r}: no usable rows ({'; '.join(problems) or 'empty'})")
+    pts = [(p.pressure, p.gap, p.voltage, p.temperature) for p in points]
+    labels = [f"line {p.line}" for p in points]
     try:
         cal = calibrate(bench, pts, labels, free)
     except FitRefused as e:
-        skipped = f" ({len(table.problems)} rows skipped: {table.problems[0]}...)" if table.problems else ""
+        skipped = f" ({len(problems)} rows skipped: {problems[0]}...)" if problems else ""
         raise UsageError(f"strikeline fit: refused: {e}{skipped}") from None
     if args.json:
-        print_json(calibration_json(cal, table.problems))
+        print_json(calibration_json(cal, tuple(problems)))
     else:
-        print(calibration_text(cal, table.problems))
+        print(calibration_text(cal, tuple(problems)))
     if args.save is not None:
         save_curve(args.save, cal.result.curve)
         print(f"strikeline fit: bench curve saved into {args.save}", file=sys.stderr)
@@ -97,7 +107,8 @@ def cmd_log(args: argparse.Namespace) -> int:
     header = ",".join(STRIKE_COLUMNS)
     target = None
     if args.strikes is not None:  # checked before the logbook is read: nothing is half-written
-        target = check_output_file(args.strikes, "--strikes", ours=lambda first: first == header)
+        old = ",".join(STRIKE_COLUMNS[:3])  # what earlier versions wrote
+        target = check_output_file(args.strikes, "--strikes", ours=lambda first: first in (header, old))
     try:
         log = read_log(args.path)
     except FileNotFoundError:

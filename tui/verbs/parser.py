@@ -9,7 +9,7 @@ from collections.abc import Callable
 from ...model.limits import LIMITS, parse_within
 from ...model.units import QuantityError
 
-__all__ = ["SAFETY", "UsageError", "add_verb", "build_parser", "count", "number", "quantity"]
+__all__ = ["SAFETY", "UsageError", "add_gas", "add_verb", "build_parser", "count", "number", "quantity"]
 
 SAFETY = (
     "High voltage can kill. strikeline is advisory: it reads instruments and controls nothing. "
@@ -92,6 +92,15 @@ def _is_number(text: str) -> bool:
 def add_verb(sub, name: str, summary: str, description: str) -> argparse.ArgumentParser:
     """A verb's parser, with the high-voltage cautions as its epilog (every verb carries them)."""
     return sub.add_parser(name, help=summary, description=description, epilog=SAFETY)
+
+
+def add_gas(p: argparse.ArgumentParser) -> None:
+    """The --gas option, written the same way for every verb that takes one."""
+    p.add_argument(
+        "--gas",
+        help="gas or mixture (default: the bench's): a name or symbol (argon, Ar, N2, air), parts "
+        "(argon:80,oxygen:20; normalised) or flows (argon:40sccm,oxygen:8sccm; mole fractions = shares of the flow)",
+    )
 
 
 def build_parser(adders: list[Callable]) -> argparse.ArgumentParser:

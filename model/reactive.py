@@ -1,0 +1,214 @@
+"""Reactive sputtering: the target's mode from the gas balance, and charging arcs on its film.
+
+Target mode. With every gas pumped alike at speed S and in steady state, a gas let in at flow Q
+would sit at the partial pressure Q/S if nothing took it away. The inert gases are not consumed,
+so the reactive gas's measured partial pressure is the total pressure minus the inert gases'
+expected ones; the target's film takes the rest. The consumed fraction names the mode: metal
+(most reactive gas consumed), transition, poisoned (little consumed). The thresholds are ours.
+
+Charging. A film of relative permittivity eps_r on the cathode charges under the ion current
+density j until its field reaches the film's dielectric strength E_bd, in t = eps0 eps_r E_bd / j,
+whatever its thickness; then it breaks down as an arc. A supply whose on-time exceeds t arcs.
+
+SI: pressures in Pa, flows in Pa m^3/s, pumping speed in m^3/s, current in A, areas in m^2,
+times in s.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Mapping
+from dataclasses import dataclass
+
+from .bench import Film, Gas
+from .results import Flag
+
+__all__ = [
+    "EPSILON_0",
+    "METAL_ABOVE",
+    "BALANCE_SLACK",
+    "POISONED_BELOW",
+    "Charging",
+    "TargetMode",
+    "charging_flags",
+    "charging_time",
+    "target_flags",
+    "target_mode",
+]
+
+EPSILON_0 = 8.8541878188e-12
+"""Vacuum permittivity, F/m (CODATA 2022; equal to scipy.constants.epsilon_0)."""
+METAL_ABOVE = 0.8
+"""Consumed fraction of the reactive gas above which the target is taken as metallic (ours)."""
+POISONED_BELOW = 0.2
+"""Consumed fraction below which the target is taken as poisoned (ours)."""
+BALANCE_SLACK = 1.5
+"""The gauge may read up to this factor above every gas's Q/S, or below the inert gases' Q/S by it,
+before the gas balance is called off (gauge calibration and pumping speed are rarely better than
+that; our judgement)."""
+
+
+@dataclass(frozen=True)
+class TargetMode:
+    """Where a reactive process stands, from its gas balance."""
+
+    reactive: tuple[str, ...]
+    """The reactive gases let in."""
+    expected: float
+    """Their partial pressure if nothing consumed them, sum of Q/S, Pa."""
+    measured: float
+    """Their partial pressure now: total pressure minus the inert gases' Q/S, Pa."""
+    consumed: float
+    """Fraction of the reactive gas the target takes, 0 to 1."""
+    mode: str
+    """"metal", "transition", "poisoned", or "unclear" when the gauge and the flows disagree."""
+    inert: float = 0.0
+    """The inert gases' partial pressure Q/S, Pa."""
+
+
+def target_mode(pressure: float, flows: Mapping[Gas, float], speed: float) -> TargetMode | None:
+    """The target mode at total pressure ``pressure`` (Pa) with ``flows`` (Pa m^3/s) by gas and
+    pumping speed ``speed`` (m^3/s); None without a reactive gas flowing.
+
+    >>> from strikeline.model.bench import Gas, TownsendConstants
+    >>> c = TownsendConstants(1.0, 1.0, 1.0, 2.0, 273.15, "")
+    >>> ar = Gas("argon", "Ar", c, None, 15.76, 0.04, 1.6e-4, "", 5e9, True)
+    >>> o2 = Gas("oxygen", "O2", c, None, 12.07, 0.032, 2.2e-4, "", 4e9, False, reactive=True)
+    >>> m = target_mode(0.45, {ar: 0.1, o2: 0.02}, 0.25)   # expected Ar 0.4 Pa, O2 0.08 Pa
+    >>> round(m.measured, 3), round(m.consumed, 3), m.mode
+    (0.05, 0.375, 'transition')
+    """
+    reactive = {g: q for g, q in flows.items() if g.reactive and q > 0}
+    if not reactive or speed <= 0:
+        return None
+    expected = math.fsum(reactive.values()) / speed
+    inert = math.fsum(q for g, q in flows.items() if not g.reactive) / speed
+    measured = max(pressure - inert, 0.0)
+    consumed = min(max(1.0 - measured / expected, 0.0), 1.0)
+    mode = "metal" if consumed >= METAL_ABOVE else "poisoned" if consumed <= POISONED_BELOW else "transition"
+    if pressure > BALANCE_SLACK * (inert + expected) or pressure * BALANCE_SLACK < inert:
+        mode = "unclear"
+    return TargetMode(tuple(sorted(g.key for g in reactive)), expected, measured, consumed, mode, inert)
+
+
+def target_flags(m: TargetMode) -> list[Flag]:
+    """The mode in words, and what the operator can do in the transition and poisoned modes."""
+    gases = " and ".join(m.reactive)
+    method = (
+        "gas balance in steady state, every gas pumped alike: expected partial pressure flow/speed, "
+        f"measured = total - inert gases' flow/speed; metal above {METAL_ABOVE:.0%} consumed, poisoned "
+        f"below {POISONED_BELOW:.0%} (our thresholds)"
+    )
+    took = (
+        f"the target takes {m.consumed:.0%} of the {gases} ({m.measured:.3g} Pa left of {m.expected:.3g} Pa expected)"
+    )
+    if m.mode == "unclear":
+        return [
+            Flag(
+                "gas_balance_off",
+                "watch",
+                f"the gauge reads {m.measured + m.inert:.3g} Pa but the flows over the pumping speed give "
+                f"{m.inert:.3g} Pa of inert gas and {m.expected:.3g} Pa of {gases} at most: check the pumping speed "
+                "(a throttle valve?), the gauge's gas correction or a leak; the target mode is not judged",
+                method,
+            )
+        ]
+    if m.mode == "metal":
+        return [Flag("target_metal", "ok", f"metal mode: {took}", method)]
+    if m.mode == "transition":
+        return [
+            Flag(
+                "target_transition",
+                "watch",
+                f"transition mode: {took}; where it tips into poisoned mode the discharge voltage and the "
+                "deposition rate jump: hold the reactive flow steady",
+                method,
+            )
+        ]
+    return [
+        Flag(
+            "target_poisoned",
+            "watch",
+            f"poisoned mode: {took}; the target is covered with its film (slower deposition, arcs): "
+            f"less {gases} flow or more pumping brings it back",
+            method,
+        )
+    ]
+
+
+def charging_time(eps_r: float, strength: float, j: float) -> float:
+    """Time for an insulating film to charge to its breakdown field under ion current density j:
+    t = eps0 eps_r E_bd / j, s (eps_r dimensionless, E_bd in V/m, j in A/m^2).
+
+    >>> round(charging_time(3.9, 1e9, 10.0) * 1e3, 2)   # SiO2 at 1 mA/cm^2
+    3.45
+    """
+    return EPSILON_0 * eps_r * strength / j
+
+
+@dataclass(frozen=True)
+class Charging:
+    """How fast a film on the target charges to breakdown, and whether the supply lets it."""
+
+    film: str
+    current_density: float
+    """Ion current density on the film, A/m^2."""
+    time: float
+    """Shortest charging time (the film's low eps_r and strength), s."""
+    on_time: float | None
+    """The supply's on-time per pulse, s (None: DC, always on)."""
+
+
+def charging_flags(
+    film: Film,
+    current: float,
+    area: float,
+    gamma: float,
+    on_time: float | None,
+    off_time: float | None,
+) -> tuple[Charging, list[Flag]]:
+    """Charging of ``film`` under ``current`` (A) on ``area`` (m^2, the part that carries it): the
+    ion share of the cathode current is 1/(1 + gamma) (common practice). A DC supply (``on_time``
+    None) or an on-time longer than the charging time arcs."""
+    j = current / (1.0 + gamma) / area
+    t = charging_time(film.eps_r[0], film.strength[0], j)
+    result = Charging(film.name, j, t, on_time)
+    method = (
+        f"t = eps0 eps_r E_bd / j with {film.name} eps_r {film.eps_r[0]:g}-{film.eps_r[1]:g}, E_bd "
+        f"{film.strength[0]:.2g}-{film.strength[1]:.2g} V/m (the low ends: the shortest time; {film.source}); "
+        "ion share of the current 1/(1 + gamma) (common practice)"
+    )
+    lead = f"the {film.name} film on the target charges to breakdown in {_us(t)} under {j / 10:.3g} mA/cm^2 of ions"
+    half_duty = 1.0 / (2.0 * t)
+    if on_time is None:
+        return result, [
+            Flag(
+                "charging_arcs",
+                "danger",
+                f"{lead}; a DC supply keeps charging it, so it arcs: pulse the supply with on-times under "
+                f"{_us(t)} (at 50 % duty, above {_hz(half_duty)})",
+                method,
+            )
+        ]
+    if on_time > t:
+        faster = 1.0 / (t + (off_time or t))
+        return result, [
+            Flag(
+                "charging_arcs",
+                "watch",
+                f"{lead}, shorter than the {_us(on_time)} on-time: expect arcs; keep the on-time under {_us(t)} "
+                f"(with this off-time, pulse above {_hz(faster)})",
+                method,
+            )
+        ]
+    return result, [
+        Flag("charging_held", "ok", f"{lead}, longer than the {_us(on_time)} on-time: each pulse ends first", method)
+    ]
+
+
+def _us(t: float) -> str:
+    return f"{t * 1e6:.3g} us" if t < 1e-2 else f"{t * 1e3:.3g} ms" if t < 10 else f"{t:.3g} s"
+
+
+def _hz(f: float) -> str:
+    return f"{f / 1e3:.3g} kHz" if f >= 1e3 else f"{f:.3g} Hz"
