@@ -95,9 +95,11 @@ def pressure_at(t: float, sc: Scenario) -> float:
         p = sc.start_pressure * (sc.base_pressure / sc.start_pressure) ** frac
     else:
         rise = 1.0 - math.exp(-(t - sc.let_in_at) / sc.settle_time)
-        setpoint = sc.setpoint if sc.pumping_speed is None else _flow_pressure(t, sc)
-        p = sc.base_pressure + (setpoint - sc.base_pressure) * rise
-        p *= 1.0 + sc.drift * math.sin(2 * math.pi * (t - sc.let_in_at) / sc.drift_period)
+        if sc.pumping_speed is None:
+            p = sc.base_pressure + (sc.setpoint - sc.base_pressure) * rise
+            p *= 1.0 + sc.drift * math.sin(2 * math.pi * (t - sc.let_in_at) / sc.drift_period)
+        else:  # flows set the pressure: no drift of its own
+            p = sc.base_pressure + (_flow_pressure(t, sc) - sc.base_pressure) * rise
     return p * (1.0 + sc.noise * _noise(sc.seed, 0, t))
 
 

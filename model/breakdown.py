@@ -24,9 +24,14 @@ from .bench import Bench, Component, Gas, Mixture, TownsendConstants, UniformFie
 
 __all__ = ["MixtureLaw", "PaschenLaw", "breakdown_law", "gas_law", "solved_mixture"]
 
-_TABLE = 8192
-"""Points of a mixture's parametric curve; linear interpolation between them is good to ~1e-6."""
-_ZOOM = 1024
+_TABLE = 4096
+"""Points of a mixture's parametric curve, before refinement; linear interpolation between them is
+good to about 1e-5."""
+_MAX_LN_PD_STEP = 2e-3
+"""Largest step of ln pd between table points: where pd moves faster than ln E/p, points are added."""
+_PD_TOP = 1e8
+"""Pa m: the table ends past this reduced pd (the accepted pd ends at 1e7, model/limits.py)."""
+_ZOOM = 256
 """Points of each finer grid that closes in on the attachment limit and the minimum."""
 _EXACT_BELOW = 64
 """Arrays up to this size are polished to the exact root; longer ones are read off the table."""
@@ -130,15 +135,48 @@ class MixtureLaw:
 
     @cached_property
     def table(self) -> tuple[NDArray, NDArray, NDArray]:
-        """(pd ascending, V, y) of the traced curve."""
+        """(pd ascending, V, y) of the traced curve: even steps in ln E/p, with more points put in
+        wherever pd runs ahead of them (towards the attachment limit, pd grows without bound)."""
         lo, hi = self.y_range
-        y = np.geomspace(lo, hi, _TABLE)[::-1]
-        pd = self._pd(y)
+        lny = np.linspace(math.log(hi), math.log(lo), _TABLE)
+        # the kinks where a two-branch fit changes branch are points of the table, not cut across
+        kinks = [math.log(k) for k in self._kinks() if lo < k < hi]
+        lny = np.sort(np.concatenate((lny, kinks)))[::-1]
+        pd = self._pd(np.exp(lny))
+        beyond = np.flatnonzero(pd > _PD_TOP)
+        if beyond.size:  # no bench reaches such pd: the table ends there (and the limit field beyond)
+            lny, pd = lny[: beyond[0] + 1], pd[: beyond[0] + 1]
+        steps = np.diff(np.log(pd))
+        extra = np.nan_to_num(np.ceil(steps / _MAX_LN_PD_STEP) - 1, nan=0.0).clip(0, _TABLE).astype(int)
+        if extra.any():
+            # each interval i gets extra[i] evenly spaced points between lny[i] and lny[i + 1]
+            starts = np.repeat(lny[:-1], extra)
+            widths = np.repeat(np.diff(lny) / (extra + 1), extra)
+            rank = np.arange(extra.sum()) - np.repeat(np.cumsum(extra) - extra, extra) + 1
+            new = starts + rank * widths
+            order = np.argsort(-np.concatenate((lny, new)), kind="stable")
+            lny = np.concatenate((lny, new))[order]
+            pd = np.concatenate((pd, self._pd(np.exp(new))))[order]
+        y = np.exp(lny)
         keep = np.isfinite(pd)
         y, pd = y[keep], pd[keep]
         # pd falls as y rises; any wiggle from a two-branch fit is dropped so pd is monotonic
         keep = np.concatenate(([True], np.diff(pd) > 0))
         return pd[keep], (y * pd)[keep], y[keep]
+
+    def _kinks(self) -> list[float]:
+        """E/p (V/(Pa m)) where a component's fit switches branch."""
+        out = []
+        for c in self.mixture.components:
+            if c.gas.low_field is not None:
+                out.append(c.gas.constants.E_over_p_low)
+            at = c.gas.attachment
+            if at is not None:
+                out += [at.switch, at.valid_high]
+                for k1, k0 in ((at.k1_low, at.k0_low), (at.k1_high, at.k0_high)):
+                    if k1 > 0 and k0 < 0:
+                        out.append(-k0 / k1)  # where a branch falls to zero (eta is never negative)
+        return out
 
     @cached_property
     def y_at_minimum(self) -> float:
@@ -226,12 +264,11 @@ class MixtureLaw:
         if rpd.size <= _EXACT_BELOW:
             v = self.e_over_p(rpd) * rpd
         else:
-            pd, vt, y = self.table
+            pd, vt, y = self.table  # pd[0] is the asymptote: left of it, NaN
             v = np.interp(rpd, pd, vt, left=np.nan, right=np.nan)
             far = rpd > pd[-1]
-            if np.any(far):  # beyond the table: the field is the limit's
-                v = np.where(far, y[-1] * rpd, v)
-            v = np.where(rpd > self.no_breakdown_pd(), v, np.nan)
+            if far.any():  # beyond the table: the field is the limit's
+                v[far] = y[-1] * rpd[far]
         return v, np.zeros(np.shape(v))
 
     def branch(self, rpd: ArrayLike) -> NDArray:

@@ -12,6 +12,7 @@ __all__ = [
     "bar",
     "centi",
     "e",
+    "epsilon_0",
     "inch",
     "k",
     "kilo",
@@ -50,5 +51,7 @@ e = 1.602176634e-19
 """Elementary charge, C (exact since 2019)."""
 m_e = 9.1093837139e-31
 """Electron mass, kg (CODATA 2022)."""
+epsilon_0 = 8.8541878188e-12
+"""Vacuum permittivity, F/m (CODATA 2022)."""
 zero_Celsius = 273.15
 """0 degrees Celsius in K (definition)."""

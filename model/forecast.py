@@ -309,7 +309,7 @@ def _reactive(point, bench, mix, gamma, load):
             flags += target_flags(target)
     charging = None
     reactive_fill = any(g.reactive for g in gases)
-    film_there = target.mode != "metal" if target is not None else reactive_fill
+    film_there = target.mode not in ("metal", "unresolved") if target is not None else reactive_fill
     current = point.current if point.current is not None else (load.current if load is not None else None)
     s = bench.supply
     if bench.film is not None and film_there and s is not None and bench.cathode_area and current:

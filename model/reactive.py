@@ -20,14 +20,15 @@ import math
 from collections.abc import Mapping
 from dataclasses import dataclass
 
+from . import constants as _c
 from .bench import Film, Gas
 from .results import Flag
 
 __all__ = [
-    "EPSILON_0",
     "METAL_ABOVE",
     "BALANCE_SLACK",
     "POISONED_BELOW",
+    "RESOLVABLE",
     "Charging",
     "TargetMode",
     "charging_flags",
@@ -36,12 +37,14 @@ __all__ = [
     "target_mode",
 ]
 
-EPSILON_0 = 8.8541878188e-12
-"""Vacuum permittivity, F/m (CODATA 2022; equal to scipy.constants.epsilon_0)."""
 METAL_ABOVE = 0.8
 """Consumed fraction of the reactive gas above which the target is taken as metallic (ours)."""
 POISONED_BELOW = 0.2
 """Consumed fraction below which the target is taken as poisoned (ours)."""
+RESOLVABLE = 0.05
+"""The reactive gases must be at least this share of the expected pressure for the balance to tell
+what the target takes: a few per cent of error in the gauge or the pumping speed would hide less
+(our judgement)."""
 BALANCE_SLACK = 1.5
 """The gauge may read up to this factor above every gas's Q/S, or below the inert gases' Q/S by it,
 before the gas balance is called off (gauge calibration and pumping speed are rarely better than
@@ -61,7 +64,8 @@ class TargetMode:
     consumed: float
     """Fraction of the reactive gas the target takes, 0 to 1."""
     mode: str
-    """"metal", "transition", "poisoned", or "unclear" when the gauge and the flows disagree."""
+    """"metal", "transition", "poisoned"; "unclear" when the gauge and the flows disagree, "unresolved"
+    when the reactive gas is too small a share of the pressure to judge."""
     inert: float = 0.0
     """The inert gases' partial pressure Q/S, Pa."""
 
@@ -88,6 +92,8 @@ def target_mode(pressure: float, flows: Mapping[Gas, float], speed: float) -> Ta
     mode = "metal" if consumed >= METAL_ABOVE else "poisoned" if consumed <= POISONED_BELOW else "transition"
     if pressure > BALANCE_SLACK * (inert + expected) or pressure * BALANCE_SLACK < inert:
         mode = "unclear"
+    elif expected < RESOLVABLE * (inert + expected):
+        mode = "unresolved"
     return TargetMode(tuple(sorted(g.key for g in reactive)), expected, measured, consumed, mode, inert)
 
 
@@ -110,6 +116,17 @@ def target_flags(m: TargetMode) -> list[Flag]:
                 f"the gauge reads {m.measured + m.inert:.3g} Pa but the flows over the pumping speed give "
                 f"{m.inert:.3g} Pa of inert gas and {m.expected:.3g} Pa of {gases} at most: check the pumping speed "
                 "(a throttle valve?), the gauge's gas correction or a leak; the target mode is not judged",
+                method,
+            )
+        ]
+    if m.mode == "unresolved":
+        share = m.expected / (m.expected + m.inert)
+        return [
+            Flag(
+                "target_unresolved",
+                "ok",
+                f"the {gases} is {share:.1%} of the expected pressure: a few per cent of error in the gauge or the "
+                f"pumping speed would hide what the target takes; the mode is judged from {RESOLVABLE:.0%} up",
                 method,
             )
         ]
@@ -143,7 +160,7 @@ def charging_time(eps_r: float, strength: float, j: float) -> float:
     >>> round(charging_time(3.9, 1e9, 10.0) * 1e3, 2)   # SiO2 at 1 mA/cm^2
     3.45
     """
-    return EPSILON_0 * eps_r * strength / j
+    return _c.epsilon_0 * eps_r * strength / j
 
 
 @dataclass(frozen=True)

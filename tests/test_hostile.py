@@ -451,6 +451,18 @@ RECORDS = [
     ("strike temperature", with_(STRIKE, gas_temperature_K="warm"), "field 'gas_temperature_K' is 'warm'"),
     ("strike note list", with_(STRIKE, note=["x"]), "field 'note' is"),
     ("flag level", {"kind": "flag", "t_unix": T, "code": "x", "level": "meh", "change": "raised"}, "field 'level'"),
+    ("fill no composition", {"kind": "fill", "t_unix": T, "source": "typed"}, "fill has no 'composition'"),
+    ("fill source", {"kind": "fill", "t_unix": T, "composition": "argon", "source": "guess"}, "field 'source'"),
+    (
+        "fill flows negative",
+        {"kind": "fill", "t_unix": T, "composition": "argon", "flows_Pa_m3_s": {"argon": -1}},
+        "field 'flows_Pa_m3_s'",
+    ),
+    (
+        "fill flows list",
+        {"kind": "fill", "t_unix": T, "composition": "argon", "flows_Pa_m3_s": [0.1]},
+        "field 'flows_Pa_m3_s'",
+    ),
     ("flag change", {"kind": "flag", "t_unix": T, "code": "x", "level": "ok", "change": "maybe"}, "field 'change'"),
     ("flag no code", {"kind": "flag", "t_unix": T, "level": "ok", "change": "raised"}, "flag has no 'code'"),
     ("event count", {"kind": "event", "t_unix": T, "event": "counts", "garbled": -3}, "field 'garbled' is -3"),

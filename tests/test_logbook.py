@@ -285,7 +285,10 @@ def test_summary_figures_on_a_known_log(tmp_path):
         and s["gaps"][0]["to"] == pytest.approx(1.8e9 + 15)
     )
     assert len(s["faults"]) == 1 and len(s["strikes"]) == 1 and len(s["flag_changes"]) == 1
-    assert [(f["composition"], f["source"]) for f in s["fills"]] == [("argon", "profile"), ("argon:80,oxygen:20", "typed")]
+    assert [(f["composition"], f["source"]) for f in s["fills"]] == [
+        ("argon", "profile"),
+        ("argon:80,oxygen:20", "typed"),
+    ]
 
 
 def test_log_verb_exports_strike_marks_for_calibration(tmp_path, capsys):

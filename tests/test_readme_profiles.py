@@ -32,7 +32,7 @@ def block_with(needle: str) -> str:
 
 def bench_block() -> str:
     """The README's bench example (its [bench] section and the rest, ports aside)."""
-    return block_with("[bench]")
+    return block_with('name = "my bench"')
 
 
 def _readings(tmp_path, capsys, text: str, samples: int) -> dict:
@@ -88,3 +88,18 @@ def test_the_readme_line_example_loads():
 
     profile = parse_bench(bench_block() + "\n" + block_with('[[port]]\nname = "controller"'), "readme.toml", None)
     assert [c.name for p in profile.ports for c in p.channels] == ["chamber"]
+
+
+def test_reactive_example_is_the_reactive_demos_own():
+    # The README's [flows] and [target] example says what the built-in reactive demo holds, and the
+    # demo (with those sections) loads.
+    import tomllib
+
+    from strikeline.profiles.loader import load_bench
+
+    example = tomllib.loads(block_with("[flows]"))
+    demo_text = (ROOT / "profiles" / "benches" / "demo-reactive.toml").read_text()
+    demo = tomllib.loads(demo_text)
+    assert example["flows"] == demo["flows"] and example["target"] == demo["target"]
+    assert example["bench"]["gas"] == demo["bench"]["gas"]
+    assert load_bench("demo-reactive").bench.pumping_speed == pytest.approx(0.25)

@@ -142,13 +142,16 @@ def test_fuzz_pd_parser(text):
         "k",
         "e",
         "m_e",
+        "epsilon_0",
         "zero_Celsius",
     ],
 )
 def test_model_constants_equal_scipy_constants(name):
     # The model writes the SI definitions itself (scipy.constants is too slow to import on the
-    # screen's start-up path); each must equal scipy.constants' value. m_e is measured (CODATA),
-    # so it is held to 1e-9.
+    # screen's start-up path); each must equal scipy.constants' value. m_e and epsilon_0 are
+    # measured (CODATA), so they are held to 1e-9.
     from strikeline.model import constants as ours
 
-    assert getattr(ours, name) == pytest.approx(getattr(constants, name), rel=1e-9 if name == "m_e" else 1e-15)
+    assert getattr(ours, name) == pytest.approx(
+        getattr(constants, name), rel=1e-9 if name in ("m_e", "epsilon_0") else 1e-15
+    )

@@ -50,9 +50,12 @@ def _v(x: float | None, unit: str = "V") -> str:
 
 
 def readout_lines(
-    view: View, system: str, selected: str, manual_gap: float, voltage: float | None
+    view: View, system: str, selected: str, manual_gap: float, voltage: float | None, fill: str = ""
 ) -> list[tuple[str, str, str]]:
-    """(label, value, style) rows of the readouts panel; style is "", "bad", "warn" or "good"."""
+    """(label, value, style) rows of the readouts panel; style is "", "bad", "warn" or "good".
+    ``fill`` is the gas fill in a few characters; a mixture, or a fill from the flow meters, gets a
+    row of its own, and a reactive process a row for the target (both last: a short terminal clips
+    them first)."""
     pu, lu, _ = UNIT_SYSTEMS[system]
     p = view.pressure
     mark = {name: (">" if selected == name else " ") for name in NUDGE_FIELDS}
@@ -81,7 +84,7 @@ def readout_lines(
         rows.append(("  why", view.withdrawn or "", "bad"))
         for label in ("pd", "breakdown", "margin", "gain", "E/N", "branch", "glow"):
             rows.append((label, "--", ""))
-        return rows
+        return rows + _fill_rows(view, fill)
     rows.append(("pd", pd_text(f.pd, system), ""))
     if f.breakdown_voltage is None:
         rows.append(("breakdown", "none at any voltage", "warn"))
@@ -109,6 +112,28 @@ def readout_lines(
         rows.append(
             ("glow", f"{ll.regime.replace('_', ' ')} {amps(ll.current)}", "bad" if ll.regime == "arc_risk" else "")
         )
+    return rows + _fill_rows(view, fill)
+
+
+def _fill_rows(view: View, fill: str) -> list[tuple[str, str, str]]:
+    """The gas fill (a mixture, or one the flow meters set) and the target of a reactive process."""
+    rows: list[tuple[str, str, str]] = []
+    if view.fill_note is not None:
+        rows.append(("gas", f"{fill} held: {view.fill_note}", "warn"))
+    elif "%" in fill or view.fill_source == "flows":
+        rows.append(("gas", f"{fill} ({view.fill_source})", ""))
+    f = view.forecast
+    if f is not None and f.target is not None:
+        t = f.target
+        if t.mode == "unclear":
+            rows.append(("target", "not judged: gauge and flows disagree", "warn"))
+        elif t.mode == "unresolved":
+            rows.append(("target", f"too little {'+'.join(t.reactive)} to judge", ""))
+        else:
+            rows.append(("target", f"{t.mode}, {t.consumed:.0%} taken", "" if t.mode == "metal" else "warn"))
+    elif f is not None and f.charging is not None:
+        c = f.charging
+        rows.append(("film", f"{c.film} arcs after {c.time * 1e6:.3g} us", "warn" if c.on_time is None else ""))
     return rows
 
 

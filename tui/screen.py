@@ -27,11 +27,11 @@ from .messages import Fresh, LogbookNote, PortNote, ReplayNote, Skipped
 from .plot import LEGEND
 from .readouts import LEVEL_STYLE, STYLE, channel_line, flag_lines, readout_lines, sparkline
 from .session import Session
-from .text import UNIT_SYSTEMS
+from .text import UNIT_SYSTEMS, fill_label
 
 __all__ = ["StrikelineApp"]
 
-READOUT_LINES = 11
+READOUT_LINES = 13
 FLAG_TEXT_INTERVAL = 1.0
 """s: numbers inside flag reasons refresh this often; levels change at once."""
 _PANELS = ("title", "channels", "plot", "flags", "history", "events", "message", "keys") + tuple(
@@ -240,10 +240,7 @@ class StrikelineApp(KeyActions, App[None]):
         gamma = b.yield_().value if f is None else f.gamma  # a mixture's is the forecast's
         t = Text()
         t.append("strikeline ", style="bold")
-        t.append(f"{self.session.profile.label} | {b.composition} / {b.cathode.key} | gamma {gamma:.3g} | {self.units}")
-        note = None if self.view_ is None else self.view_.fill_note
-        if note is not None:
-            t.append(f" | gas held: {note}", style="bold")
+        t.append(f"{self.session.profile.label} | {fill_label(b)} / {b.cathode.symbol} | γ {gamma:.3g} | {self.units}")
         if self.paused:
             t.append(" | PAUSED", style="bold reverse")
         if self.logbook_trouble:
@@ -269,9 +266,8 @@ class StrikelineApp(KeyActions, App[None]):
         self._set("channels", t)
 
     def _draw_readouts(self, view) -> None:
-        rows = readout_lines(
-            view, self.units, self.selected, self.session.values["gap"], self.session.values["voltage"]
-        )
+        v = self.session.values
+        rows = readout_lines(view, self.units, self.selected, v["gap"], v["voltage"], fill_label(self.session.bench))
         for i in range(READOUT_LINES):
             t = Text(no_wrap=True, overflow="ellipsis")
             if i < len(rows):

@@ -23,6 +23,7 @@ from ..model.limits import LIMITS, parse_within
 from ..profiles.fill import Fill, read_fill, with_fill
 from ..profiles.loader import BenchProfile, find_cathode, gauge_correction
 from .fillwatch import STEADY_STATE, FillWatch
+from .readinglimits import ReadingLimits
 
 if TYPE_CHECKING:  # the numeric model loads with the first forecast, not with the screen
     from ..model.forecast import Flag, Forecast
@@ -31,14 +32,6 @@ __all__ = ["FIELDS", "PressureNow", "Session", "StrikeMark", "View"]
 
 FIELDS = ("pressure", "gap", "voltage", "temperature")
 """What the operator may type; each is read inside its physical limit (model/limits.py)."""
-
-_READING_BOUNDS = {
-    "pressure": (LIMITS["pressure"].low, LIMITS["pressure"].high),
-    "voltage": (-LIMITS["voltage"].high, LIMITS["voltage"].high),  # a read-back may be 0 or negative
-    "current": (-LIMITS["current"].high, LIMITS["current"].high),
-    "flow": (-LIMITS["flow"].high, LIMITS["flow"].high),
-}
-"""A reading outside these (SI) is far out of any instrument's range: skipped, and said so once."""
 
 
 @dataclass(frozen=True)
@@ -84,6 +77,8 @@ class View:
     """("raised" or "cleared", flag) since the previous view; a level change counts as raised."""
     fill_note: str | None = None
     """Why the flow meters do not set the gas fill now (None: they do, or none are named)."""
+    fill_source: str = "profile"
+    """Where the gas fill in use came from: "profile", "typed" or "flows"."""
 
 
 class Session:
@@ -126,8 +121,9 @@ class Session:
         """Flows the operator typed with the gas fill ("argon:40 sccm,oxygen:8 sccm")."""
         self.fill_note: str | None = None
         """Why the flow meters cannot set the fill now (None: they do, or the fill is typed)."""
+        self.fill_source = "profile"
         self.strikes: list[StrikeMark] = []
-        self._out_of_limits: set[str] = set()
+        self.limits = ReadingLimits()
         self._flags: dict[str, Flag] = {}
         self._summary: tuple | None = None
         self._summary_at = -float("inf")
@@ -139,7 +135,7 @@ class Session:
         (a wrong scale in the profile, a corrupt replay) is stored and logged as over or under range
         with the value in its raw text; the return is a line saying so when a channel goes out of
         those limits or comes back (None otherwise)."""
-        r, note = self._bounded(r)
+        r, note = self.limits.check(r)
         self.latest.update(r)
         if self.logbook is not None:
             value, approx = self.corrected(r)
@@ -155,25 +151,6 @@ class Session:
                 raw=r.raw,
             )
         return note
-
-    def _bounded(self, r: Reading) -> tuple[Reading, str | None]:
-        bounds = _READING_BOUNDS.get(r.quantity)
-        inside = r.value is None or bounds is None or bounds[0] <= r.value <= bounds[1]
-        was_out = r.channel in self._out_of_limits
-        if inside:
-            if was_out and r.value is not None:
-                self._out_of_limits.discard(r.channel)
-                return r, f"{r.channel}: readings back inside what strikeline accepts"
-            return r, None
-        lo, hi = bounds
-        status = Status.OVER_RANGE if r.value > hi else Status.UNDER_RANGE
-        unit = {"pressure": "Pa", "voltage": "V", "current": "A", "flow": "Pa m3/s"}[r.quantity]
-        why = f"{r.value:.3g} {unit} is outside the {lo:g} to {hi:g} {unit} strikeline accepts"
-        r = replace(r, value=None, status=status, raw=f"{r.raw} ({why})")
-        if was_out:
-            return r, None
-        self._out_of_limits.add(r.channel)
-        return r, f"{r.channel}: {why}; skipped (check the channel's unit and scale)"
 
     def corrected(self, r: Reading) -> tuple[float | None, bool]:
         corr = self.gauges.get(r.channel)
@@ -249,6 +226,7 @@ class Session:
 
     def _use_fill(self, fill: Fill, source: str) -> None:
         self.bench = with_fill(self.bench, fill)
+        self.fill_source = source
         what = fill.mixture or fill.gas
         self.gauges = {ch: c if c.overridden else gauge_correction(c.kind, what) for ch, c in self.gauges.items()}
         if self.logbook is not None:
@@ -335,7 +313,7 @@ class Session:
             f = forecast(point, self.bench)
         withdrawn = p.withdrawn
         changes = self._log_changes(now, f, withdrawn)
-        return View(p, f, withdrawn, changes, self.fill_note)
+        return View(p, f, withdrawn, changes, self.fill_note, self.fill_source)
 
     def _log_changes(self, now: float, f: Forecast | None, withdrawn: str | None) -> tuple[tuple[str, Flag], ...]:
         flags = {} if f is None else {x.code: x for x in f.flags}

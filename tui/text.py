@@ -149,6 +149,19 @@ def forecast_text(f: Forecast, system: str = "SI") -> str:
     return "\n".join(lines)
 
 
+def fill_label(bench) -> str:
+    """The gas fill in a few characters: "Ar", or "Ar 83%+O2 17%" (percent to two figures).
+
+    >>> from strikeline.profiles.fill import read_fill, with_fill
+    >>> from strikeline.profiles.loader import load_bench
+    >>> fill_label(with_fill(load_bench("demo").bench, read_fill("argon:40 sccm,oxygen:8 sccm")))
+    'Ar 83%+O2 17%'
+    """
+    if bench.mixture is None:
+        return bench.gas.symbol
+    return "+".join(f"{c.gas.symbol} {100 * c.fraction:.2g}%" for c in bench.mixture.components)
+
+
 def mixture_rows(f: Forecast, pu: str) -> list[tuple[str, str]]:
     """What a mixture (or an attaching gas) adds: its make-up, the attachment limit, the expected
     partial pressures."""
@@ -175,8 +188,8 @@ def reactive_rows(f: Forecast) -> list[tuple[str, str]]:
     rows = []
     if f.target is not None:
         t = f.target
-        if t.mode == "unclear":
-            rows.append(("target mode", "not judged: the gauge and the flows disagree (see flags)"))
+        if t.mode in ("unclear", "unresolved"):
+            rows.append(("target mode", "not judged (see flags)"))
         else:
             rows.append(("target mode", f"{t.mode}: {t.consumed:.0%} of the {' and '.join(t.reactive)} consumed"))
     if f.charging is not None:
