@@ -1,5 +1,7 @@
 """Bench calibration: recovery, honest intervals, published data, refusals, CSV, saving."""
 
+import csv
+import io
 import json
 
 import numpy as np
@@ -156,9 +158,9 @@ def test_fit_verb_json_contract_and_save(tmp_path, capsys):
         )
         == 0
     )
-    row = capsys.readouterr().out.splitlines()[1].split(",")
-    assert row[-1] == "bench-curve"
-    assert float(row[4]) == pytest.approx(f.breakdown_voltage, rel=0.02)
+    (row,) = [r for r in csv.DictReader(io.StringIO(capsys.readouterr().out))][:1]
+    assert row["constants"] == "bench-curve" and row["gas"] == "argon"
+    assert float(row["breakdown_V"]) == pytest.approx(f.breakdown_voltage, rel=0.02)
     # saving twice replaces the section rather than adding another
     assert cli.main(["fit", str(_csv(tmp_path, seed=5)), "--bench", str(bench), "--save", str(bench)]) == 0
     assert bench.read_text().count("[curve]") == 1

@@ -203,8 +203,9 @@ def test_curve_csv_over_pressure_with_a_gap(capsys):
         "branch",
         "law",
         "constants",
+        "gas",
     }
-    assert {r["constants"] for r in rows} == {"textbook"}
+    assert {r["constants"] for r in rows} == {"textbook"} and {r["gas"] for r in rows} == {"argon"}
     assert float(rows[0]["pressure_Pa"]) == pytest.approx(1.0) and float(rows[-1]["pressure_Pa"]) == pytest.approx(
         1000.0
     )

@@ -145,3 +145,11 @@ def test_record_takes_a_gas_fill(tmp_path, capsys):
     recs = read_logbook(path).records
     assert recs[0]["gas"] == "argon:95,nitrogen:5"
     assert any(r["kind"] == "fill" and r["source"] == "typed" for r in recs)
+
+
+def test_gauge_names_the_fill_it_corrects_for(capsys):
+    code = cli.main(["gauge", "--bench", "demo", "--gas", "argon:80,oxygen:20", "--samples", "2", "--json"])
+    lines = [json.loads(x) for x in capsys.readouterr().out.splitlines()]
+    assert code == 0 and lines[0] == {"kind": "fill", "composition": "argon:80,oxygen:20"}
+    (thermal,) = {r["approximate"] for r in lines if r["kind"] == "reading" and r["channel"] == "chamber"}
+    assert thermal is True  # a thermal gauge in a mixture: shown uncorrected, approximate

@@ -7,6 +7,8 @@ Outside sources: scipy.constants (epsilon_0, atm); Robertson, Eur. Phys. J. Appl
 found); ../shared/reference/check-values.md for the charging-time hand calculations.
 """
 
+import csv
+import io
 import json
 import math
 
@@ -254,6 +256,7 @@ def test_strike_takes_flows_speed_film_and_current(capsys):
 
 def test_curve_of_a_mixture_says_it_is_mixed(capsys):
     assert cli.main(["curve", "--bench", "demo", "--gas", "argon:80,oxygen:20", "--points", "5"]) == 0
-    rows = capsys.readouterr().out.splitlines()
-    assert rows[0].endswith("constants") and all(r.endswith(",mixed") for r in rows[1:])
-    assert all(math.isfinite(float(r.split(",")[2])) for r in rows[1:] if r.split(",")[2])
+    rows = list(csv.DictReader(io.StringIO(capsys.readouterr().out)))
+    assert len(rows) == 5 and all(r["constants"] == "mixed" and r["law"] == "mixture" for r in rows)
+    assert all(r["gas"] == "argon:80,oxygen:20" for r in rows)
+    assert all(math.isfinite(float(r["breakdown_V"])) for r in rows if r["breakdown_V"])

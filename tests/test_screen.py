@@ -309,3 +309,23 @@ async def test_a_gauge_reading_far_out_of_range_is_an_event_and_never_forecast(t
         dev.close()
     logged = [r for r in (tmp_path / "l.jsonl").read_text().splitlines() if '"kind":"reading"' in r]
     assert logged and all('"status":"over_range"' in r and "1e+30 Pa is outside" in r for r in logged)
+
+
+async def test_a_reactive_bench_shows_its_fill_target_and_the_change_from_the_flows():
+    sccm = 101325 * 1e-6 / 60
+    clock = Clock(100.0)
+    app = make_app(load_bench("demo-reactive"), log=False, show_caution=False, clock=clock, start_sources=False)
+    async with app.run_test(size=(80, 24)) as pilot:
+        for channel, quantity, value in (
+            ("ar-flow", "flow", 40 * sccm),
+            ("o2-flow", "flow", 8 * sccm),
+            ("chamber", "pressure", 0.30),
+            ("supply-current", "current", 1.5),
+        ):
+            app.session.handle(reading(value, 100.0, channel=channel, quantity=quantity))
+        app.post_message(Fresh(0.0))
+        await pilot.pause()
+        shown = text_of(app, "readouts")
+        assert "gas         Ar 83%+O2 17% (flows)" in shown and "target      transition, " in shown
+        assert "Ar 83%+O2 17% / Al" in text_of(app, "title")
+        assert any("gas from the flows: Ar 83%+O2 17% (steady state" in e for e in app.events)

@@ -225,9 +225,15 @@ class StrikelineApp(KeyActions, App[None]):
         if self.paused and self.view_ is not None:
             self._draw_title()
             return
+        fill_before = self.session.bench.composition
         view = self.session.view(self.clock())
         previous = self.view_
         self.view_ = view
+        if self.session.bench.composition != fill_before and view.fill_source == "flows":
+            self.plot_stale = True
+            self.record_event(
+                f"gas from the flows: {fill_label(self.session.bench)} (steady state, every gas pumped alike)"
+            )
         self._draw_title()
         self._draw_channels()
         self._draw_readouts(view)

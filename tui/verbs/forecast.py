@@ -34,7 +34,17 @@ def _common_point(s: argparse.ArgumentParser) -> None:
 
 
 def add_strike(sub) -> None:
-    s = add_verb(sub, "strike", "forecast one operating point", "Forecast one operating point.")
+    s = add_verb(
+        sub,
+        "strike",
+        "forecast one operating point",
+        "Forecast one operating point. A mixture (--gas argon:80,oxygen:20) is solved by Townsend's criterion "
+        "with attachment and linear mixing: alpha/N and eta/N are the mole-fraction sums of the gases', gamma is "
+        "each gas's weighted by its share of the ionisation, and the breakdown band is widened by 10 %; Penning "
+        "pairs are flagged, not modelled. Given as flows (--gas argon:40sccm,oxygen:8sccm) with --pumping-speed, "
+        "the fill also gives the expected partial pressures (steady state, every gas pumped alike) and the target "
+        "mode; --film and --current give the charging time of the target's film.",
+    )
     _common_point(s)
     s.add_argument(
         "--pressure", type=quantity("pressure"), metavar="P", help="true gas pressure, e.g. '0.5 Pa', '20 mTorr'"
@@ -79,7 +89,8 @@ def add_curve(sub) -> None:
         "Print the breakdown curve as CSV. With --gap, --from/--to are pressures; without it they are pd "
         "values such as '0.1 Torr cm'. A magnetised bench is swept in pressure at its gap (the crossed-field "
         "effective pressure depends on p), and its reduced_pd column includes that effective pressure. "
-        "Default: two decades either side of the minimum.",
+        "Default: two decades either side of the minimum. The law column says which law gave each point "
+        '(a mixture: "mixture"), the constants column textbook, mixed or bench-curve, the gas column the fill.',
     )
     _common_point(c)
     c.add_argument("--gap", type=quantity("gap"), metavar="D", help="fix the gap and sweep pressure")
@@ -166,7 +177,8 @@ def cmd_curve(args: argparse.Namespace) -> int:
     from ...model.breakdown import breakdown_law
     from ...model.forecast import with_bench_curve
 
-    bench, fitted = with_bench_curve(bench_for(args, need_gap=False))
+    given = bench_for(args, need_gap=False)
+    bench, fitted = with_bench_curve(given)  # a fitted curve stands for the fill it was fitted in
     law = breakdown_law(bench)
     scale = law.reference_temperature / bench.gas_temperature
     pd_min, _ = law.minimum()
@@ -215,8 +227,10 @@ def cmd_curve(args: argparse.Namespace) -> int:
         "branch",
         "law",
         "constants",
+        "gas",
     ]
     source = "bench-curve" if fitted is not None else ("mixed" if law.mixture is not None else "textbook")
+    gas = f'"{given.composition}"' if "," in given.composition else given.composition  # CSV quoting
     out.write(",".join(cols) + "\n")
     for i in range(len(xs)):
         v = "" if not np.isfinite(vb[i]) else f"{vb[i]:.10g}"
@@ -225,8 +239,9 @@ def cmd_curve(args: argparse.Namespace) -> int:
             f"{rpd[i]:.10g}",
             v,
             str(br[i]),
-            law_name(w[i]),
+            law_name(w[i]) if law.mixture is None else "mixture",
             source,
+            gas,
         ]
         out.write(",".join(row) + "\n")
     return 0

@@ -193,6 +193,11 @@ def cmd_gauge(args: argparse.Namespace) -> int:
     start = time.monotonic()
     deadline = start + (args.seconds if args.seconds is not None else SILENCE_LIMIT)
     shown = answered = 0
+    fill = profile.bench.composition
+    if args.json:  # the gas fill the pressures are corrected for, as the first line
+        print_json({"kind": "fill", "composition": fill}, indent=None, flush=True)
+    else:
+        print(f"# gas fill {fill}: pressure channels corrected for it", file=sys.stderr)
     inst.start()
     try:
         while shown < args.samples and time.monotonic() < deadline:
@@ -250,7 +255,8 @@ def cmd_record(args: argparse.Namespace) -> int:
         session.set_gas(args.gas)
     q: queue.Queue = queue.Queue()
     inst = Instruments(profile.ports, q.put, lambda port, kind, msg: q.put((port, kind, msg)))
-    print(f"strikeline record: logging {profile.label} to {path} for {args.seconds:g} s", file=sys.stderr)
+    fill = session.bench.composition
+    print(f"strikeline record: logging {profile.label} in {fill} to {path} for {args.seconds:g} s", file=sys.stderr)
     end = time.monotonic() + args.seconds
     answered = 0
     next_view = 0.0
