@@ -7,7 +7,19 @@ from enum import StrEnum
 
 __all__ = ["QUANTITIES", "Reading", "Status"]
 
-QUANTITIES = ("pressure", "voltage", "current", "flow", "state")
+QUANTITIES = (
+    "pressure",
+    "voltage",
+    "current",
+    "flow",
+    "state",
+    "forward_power",
+    "reflected_power",
+    "self_bias",
+    "rf_voltage",
+)
+"""What a channel reads. An RF supply's forward and reflected power (W); a matching network's DC
+self-bias (V) and the electrodes' peak-to-peak voltage (``rf_voltage``, V)."""
 """What a channel can measure; the value is in Pa, V, A, Pa m^3/s (a gas flow) or, for a state
 such as an interlock bit, the number the instrument gave (its words come from the profile)."""
 

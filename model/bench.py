@@ -140,6 +140,10 @@ class Gas:
     """Lowest metastable level, eV (noble gases: the energy that makes Penning mixtures)."""
     reactive: bool = False
     """Reacts with a sputter target to form a film (oxygen, nitrogen)."""
+    electron_mobility_p: float | None = None
+    """Reduced electron mobility mu_e p, m^2 Pa/(V s), at the fields of RF breakdown."""
+    characteristic_energy: float | None = None
+    """D_e/mu_e of the electrons, V (eV per unit charge), at those fields."""
 
 
 @dataclass(frozen=True)
@@ -253,9 +257,10 @@ class Supply:
     ballast: float = 0.0
     """Series (ballast) resistance between supply and cathode, ohm."""
     mode: str = "dc"
-    """"dc" or "pulsed"."""
+    """"dc", "pulsed" or "ac" (any alternating supply: mid-frequency AC or RF). For "ac" the
+    open-circuit voltage is the amplitude (peak) across the electrodes."""
     frequency: float | None = None
-    """Pulse repetition frequency, Hz (pulsed only)."""
+    """Pulse repetition frequency (pulsed) or the frequency of the alternating voltage (ac), Hz."""
     off_time: float | None = None
     """Time between pulses with the voltage off, s (pulsed only)."""
 
@@ -372,3 +377,6 @@ class OperatingPoint:
     """Gas flows, Pa m^3/s (for the expected partial pressures and the target mode)."""
     current: float | None = None
     """Measured discharge current, A (None: the load line's is used)."""
+    frequency: float | None = None
+    """Frequency of an alternating applied voltage, Hz (None: the supply's if it is AC, else DC). With
+    a frequency, ``voltage`` is the amplitude (peak) across the electrodes."""

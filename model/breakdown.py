@@ -12,6 +12,7 @@ SI: pd in Pa m reduced to the constants' reference density, E/p in V/(Pa m), vol
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass
 from functools import cached_property, lru_cache
 
@@ -22,7 +23,7 @@ from . import mixture as mx
 from . import paschen, townsend
 from .bench import Bench, Component, Gas, Mixture, TownsendConstants, UniformFieldLaw
 
-__all__ = ["MixtureLaw", "PaschenLaw", "breakdown_law", "gas_law", "solved_mixture"]
+__all__ = ["MixtureLaw", "PaschenLaw", "alternating_law", "breakdown_law", "gas_law", "solved_mixture", "trace"]
 
 _TABLE = 4096
 """Points of a mixture's parametric curve, before refinement; linear interpolation between them is
@@ -138,31 +139,9 @@ class MixtureLaw:
         """(pd ascending, V, y) of the traced curve: even steps in ln E/p, with more points put in
         wherever pd runs ahead of them (towards the attachment limit, pd grows without bound)."""
         lo, hi = self.y_range
-        lny = np.linspace(math.log(hi), math.log(lo), _TABLE)
-        # the kinks where a two-branch fit changes branch are points of the table, not cut across
-        kinks = [math.log(k) for k in self._kinks() if lo < k < hi]
-        lny = np.sort(np.concatenate((lny, kinks)))[::-1]
-        pd = self._pd(np.exp(lny))
-        beyond = np.flatnonzero(pd > _PD_TOP)
-        if beyond.size:  # no bench reaches such pd: the table ends there (and the limit field beyond)
-            lny, pd = lny[: beyond[0] + 1], pd[: beyond[0] + 1]
-        steps = np.diff(np.log(pd))
-        extra = np.nan_to_num(np.ceil(steps / _MAX_LN_PD_STEP) - 1, nan=0.0).clip(0, _TABLE).astype(int)
-        if extra.any():
-            # each interval i gets extra[i] evenly spaced points between lny[i] and lny[i + 1]
-            starts = np.repeat(lny[:-1], extra)
-            widths = np.repeat(np.diff(lny) / (extra + 1), extra)
-            rank = np.arange(extra.sum()) - np.repeat(np.cumsum(extra) - extra, extra) + 1
-            new = starts + rank * widths
-            order = np.argsort(-np.concatenate((lny, new)), kind="stable")
-            lny = np.concatenate((lny, new))[order]
-            pd = np.concatenate((pd, self._pd(np.exp(new))))[order]
-        y = np.exp(lny)
-        keep = np.isfinite(pd)
-        y, pd = y[keep], pd[keep]
-        # pd falls as y rises; any wiggle from a two-branch fit is dropped so pd is monotonic
-        keep = np.concatenate(([True], np.diff(pd) > 0))
-        return pd[keep], (y * pd)[keep], y[keep]
+        kinks = [k for k in self._kinks() if lo < k < hi]
+        y, pd = trace(math.log(hi), math.log(lo), self._pd, kinks)
+        return pd, y * pd, y
 
     def _kinks(self) -> list[float]:
         """E/p (V/(Pa m)) where a component's fit switches branch."""
@@ -283,6 +262,40 @@ class MixtureLaw:
         return float(p * mx.mixture_attachment(self.mixture, E / p))
 
 
+def trace(start: float, end: float, pd_of: Callable[[NDArray], NDArray], kinks=()) -> tuple[NDArray, NDArray]:
+    """A curve pd(x) traced from ln x = ``start`` towards ``end`` while pd grows: even steps in ln x,
+    more points wherever ln pd moves by over _MAX_LN_PD_STEP between two, ``kinks`` (where a fit
+    changes branch) as points of their own, and an end past _PD_TOP (no bench reaches such pd).
+    Returns (x, pd) in trace order, pd finite and rising."""
+    lnx = np.linspace(start, end, _TABLE)
+    lnx = np.concatenate((lnx, [math.log(k) for k in kinks]))
+    lnx = np.sort(lnx) if end > start else np.sort(lnx)[::-1]
+    pd = pd_of(np.exp(lnx))
+    beyond = np.flatnonzero(pd > _PD_TOP)
+    if beyond.size:
+        lnx, pd = lnx[: beyond[0] + 1], pd[: beyond[0] + 1]
+    steps = np.abs(np.diff(np.log(pd)))
+    extra = np.nan_to_num(np.ceil(steps / _MAX_LN_PD_STEP) - 1, nan=0.0).clip(0, _TABLE).astype(int)
+    if extra.any():
+        # each interval i gets extra[i] evenly spaced points between lnx[i] and lnx[i + 1]
+        starts = np.repeat(lnx[:-1], extra)
+        widths = np.repeat(np.diff(lnx) / (extra + 1), extra)
+        rank = np.arange(extra.sum()) - np.repeat(np.cumsum(extra) - extra, extra) + 1
+        new = starts + rank * widths
+        both = np.concatenate((lnx, new))
+        order = np.argsort(both if end > start else -both, kind="stable")
+        lnx = both[order]
+        pd = np.concatenate((pd, pd_of(np.exp(new))))[order]
+    x = np.exp(lnx)
+    keep = np.isfinite(pd)
+    x, pd = x[keep], pd[keep]
+    if x.size == 0:
+        return x, pd
+    # any wiggle from a two-branch fit is dropped so pd rises along the trace
+    keep = np.concatenate(([True], np.diff(pd) > 0))
+    return x[keep], pd[keep]
+
+
 def gas_law(gas: Gas, gamma: float) -> PaschenLaw | MixtureLaw:
     """One gas's law at one yield: Paschen's, or the mixture law for a gas that attaches."""
     if gas.attachment is None:
@@ -313,6 +326,20 @@ def breakdown_law(bench: Bench, gamma: float | None = None, which: str = "value"
         for c in mix.components
     )
     return _mixture_law(mix, gammas)
+
+
+def alternating_law(bench: Bench, frequency: float, gap: float):
+    """The bench's law for an alternating voltage of ``frequency`` (Hz) across ``gap`` (m):
+    :class:`.alternating.AlternatingLaw` over its DC law (a pure gas counts as a one-gas mixture)."""
+    mix = solved_mixture(bench) or Mixture((Component(bench.gas, 1.0),))
+    return _alternating_law(mix, float(frequency), float(gap), breakdown_law(bench))
+
+
+@lru_cache(maxsize=64)
+def _alternating_law(mix: Mixture, frequency: float, gap: float, dc):
+    from .alternating import AlternatingLaw
+
+    return AlternatingLaw(mix, frequency, gap, dc)
 
 
 @lru_cache(maxsize=32)

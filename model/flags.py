@@ -223,6 +223,8 @@ def margin_flags(
         method = "bench curve and its 95 % prediction band"
     elif law == "paschen":
         method = f"Paschen's law; V_b band from the gamma range and +/-{u:.0%} for the constants"
+    elif law == "alternating":
+        method = f"breakdown in an alternating field (model/alternating.py); V_b band +/-{u:.0%}"
     elif law == "mixture":
         method = (
             f"Townsend criterion with attachment, linear mixing; V_b band from the gamma range and +/-{u:.0%} "

@@ -18,9 +18,11 @@ import numpy as np
 from . import constants as _c
 from . import mixture as mx
 from . import townsend
+from .ac_point import ac_frequency, ac_result, not_applicable
 from .afterglow import afterglow_between_pulses
+from .alternating import ALTERNATING_UNCERTAINTY
 from .bench import Bench, BenchCurve, OperatingPoint, Yield
-from .breakdown import breakdown_law, solved_mixture
+from .breakdown import alternating_law, breakdown_law, solved_mixture
 from .calibration import prediction_band
 from .composition import same_composition
 from .flags import (
@@ -159,22 +161,33 @@ def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
     bench, cv = with_bench_curve(bench)
     gas = bench.gas
     mix = solved_mixture(bench)
-    law = breakdown_law(bench)
-    y = _yield(bench, law, cv, mix)
+    freq = ac_frequency(point, bench)
+    law = breakdown_law(bench) if freq is None else alternating_law(bench, freq, point.gap)
+    y = _yield(bench, law if freq is None else law.dc, cv, mix)
     gamma = y.value
     T = point.gas_temperature
     scale = law.reference_temperature / T  # reduced pd = pd * scale
-    p_eff, hall = effective_pressure(point.pressure, T, bench)
+    p_eff, hall = effective_pressure(point.pressure, T, bench) if freq is None else (point.pressure, None)
     to_pressure = 1.0 / scale / point.gap * (point.pressure / p_eff)  # reduced pd -> pressure at this gap
     rpd = p_eff * point.gap * scale
     v, w = law.voltage(rpd)
     vb, weight = finite_or_none(v), float(w)
-    law_used = law_name(weight) if mix is None else "mixture"
+    law_used = "alternating" if freq is not None else law_name(weight) if mix is None else "mixture"
     pd_min, v_min = law.minimum()
     pd0 = law.no_breakdown_pd()
     br = str(law.branch(rpd))
     e_over_p = finite_or_none(law.e_over_p(rpd))
     flags: list[Flag] = []
+    if freq is not None and bench.magnetic_field is not None:
+        flags.append(
+            Flag(
+                "crossed_field_not_applied",
+                "watch",
+                "magnetised cathode: the crossed-field effective pressure is a DC treatment and is not applied to "
+                "this alternating supply; the magnet confines electrons, so breakdown is likely lower than forecast",
+                "effective-pressure treatment of crossed E x B fields, DC only (our choice)",
+            )
+        )
     if hall is not None:
         flags.append(
             Flag(
@@ -199,15 +212,21 @@ def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
         flags += mixture_flags(
             bench.composition, mix.components, e_over_p, critical, mx.penning_pairs(mix), mx.ASSUMPTIONS
         )
-    band, band_source, u = _band(rpd, bench, law, y, hall, weight, cv, mix is not None)
+    V = point.voltage
+    if V is None and bench.supply is not None:
+        V = bench.supply.open_circuit_voltage
+    alt = None
+    if freq is not None:
+        alt, ac_flags = ac_result(law, point, rpd, scale, V)
+        flags += ac_flags
+        band, band_source, u = _ac_band(vb, alt.regime, mix is not None)
+    else:
+        band, band_source, u = _band(rpd, bench, law, y, hall, weight, cv, mix is not None)
     if u is None:
         flags += curve_flags(cv, rpd)
 
     result: dict[str, Any] = {}
-    V = point.voltage
-    if V is None and bench.supply is not None:
-        V = bench.supply.open_circuit_voltage
-    strays = stray_gaps(bench, lambda x: finite_or_none(law.voltage(x)[0]), p_eff, scale, vb)
+    strays = stray_gaps(bench, _stray_breakdown(bench, law, freq), p_eff, scale, vb)
     load = None
     if V is not None:
         E = V / point.gap
@@ -215,34 +234,39 @@ def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
         eta = law.eta(E, p_eff * scale)
         ad, net = a * point.gap, (a - eta) * point.gap
         N = float(townsend.number_density(point.pressure, T))
-        strikes = vb is not None and V >= vb
+        swept = alt is not None and alt.upper_voltage is not None and V > alt.upper_voltage
+        swept = swept and (alt.dc_like_voltage is None or V < alt.dc_like_voltage)  # no gamma strike either
+        strikes = vb is not None and V >= vb and not swept
+        volume = alt is not None and alt.regime in ("rf-volume", "drift-limited")
+        E_shown = E if alt is None else alt.effective_field  # an alternating field: E_eff
         result = {
             "voltage": V,
-            "E_over_N_Td": float(townsend.reduced_field_Td(E, N)),
+            "E_over_N_Td": float(townsend.reduced_field_Td(E_shown, N)),
             "alpha": a,
             "eta": eta if mix is not None else None,
-            "alpha_d": ad,
-            "gain": float(townsend.avalanche_gain(net)),
-            "current_growth": float(townsend.current_growth(ad, gamma, eta * point.gap)),
+            "alpha_d": None if volume else ad,
+            "gain": None if volume else float(townsend.avalanche_gain(net)),
+            "current_growth": None if volume else float(townsend.current_growth(ad, gamma, eta * point.gap)),
             "margin": None if vb is None else V - vb,
             "margin_fraction": None if vb is None else (V - vb) / vb,
             "strikes": strikes,
         }
-        flags += margin_flags(V, vb, band, law_used, u)
-        if hall is None and rpd >= STREAMER_CHECK_PD:
+        if not swept:  # above the upper branch the alternating flags say why it does not strike
+            flags += margin_flags(V, vb, band, law_used, u)
+        if hall is None and rpd >= STREAMER_CHECK_PD and (alt is None or alt.regime == "dc-like"):
             flags += streamer_flags(V, vb, net, rpd, weight)
-        if bench.supply is not None and strikes:
+        if bench.supply is not None and strikes and alt is None:
             load, glow_flags = glow_after_ignition(bench, p_eff, v_min, V)
             flags += glow_flags
     flags += stray_flags(strays, vb, V, load)
     flags += left_branch_flags(br, point, bench, pd_min, v_min, scale, p_eff)
-    after, after_flags = afterglow_between_pulses(point, bench)
+    after, after_flags = afterglow_between_pulses(point, bench) if freq is None else (None, [])
     flags += after_flags
     partial = _partial_pressures(point, bench)
-    target, charging, reactive_flags = _reactive(point, bench, mix, gamma, load)
+    target, charging, reactive_flags = _reactive(point, bench, mix, gamma, load, freq)
     flags += reactive_flags
 
-    c = law.constants if mix is None else None
+    c = law.constants if mix is None and freq is None else law.dc.constants if mix is None else None
     return Forecast(
         gas=bench.composition,
         cathode=bench.cathode.key,
@@ -279,9 +303,29 @@ def forecast(point: OperatingPoint, bench: Bench) -> Forecast:
         partial_pressures=partial,
         target=target,
         charging=charging,
+        alternating=alt,
+        not_applicable=() if alt is None else not_applicable(alt.regime),
         flags=tuple(flags),
         **result,
     )
+
+
+def _ac_band(vb, regime: str, mixed: bool):
+    """An alternating supply's band: the swarm data's uncertainty for volume breakdown, the
+    constants' for the DC-like mechanisms (and the mixing's on top for a mixture)."""
+    volume = regime in ("rf-volume", "drift-limited")
+    u = (ALTERNATING_UNCERTAINTY if volume else TEXTBOOK_UNCERTAINTY) + (MIXTURE_UNCERTAINTY if mixed else 0.0)
+    band = (None, None) if vb is None else (vb * (1 - u), vb * (1 + u))
+    what = "the swarm data (nu_m, mobility, eps_k)" if volume else "the constants"
+    return band, f"+/-{u:.0%} for {what}" + (" and mixing" if mixed else ""), u
+
+
+def _stray_breakdown(bench, law, freq):
+    """V_b of a stray gap from its reduced pd and its length: the main law for DC, the gap's own
+    alternating law for AC (the curve depends on w d)."""
+    if freq is None:
+        return lambda rpd, length: finite_or_none(law.voltage(rpd)[0])
+    return lambda rpd, length: finite_or_none(alternating_law(bench, freq, length).voltage(rpd)[0])
 
 
 def _mixed_sources(mix) -> str:
@@ -298,7 +342,7 @@ def _partial_pressures(point: OperatingPoint, bench: Bench) -> tuple[tuple[str, 
     return tuple((g.key, q / bench.pumping_speed) for g, q in point.flows)
 
 
-def _reactive(point, bench, mix, gamma, load):
+def _reactive(point, bench, mix, gamma, load, freq):
     """Target mode from the gas balance, and charging arcs on the target's film."""
     flags: list[Flag] = []
     target = None
@@ -314,8 +358,12 @@ def _reactive(point, bench, mix, gamma, load):
     s = bench.supply
     if bench.film is not None and film_there and s is not None and bench.cathode_area and current:
         if math.isfinite(current) and current > 0:
-            on = None if s.mode != "pulsed" else 1.0 / s.frequency - s.off_time
+            if freq is not None:  # each half period reverses the field and discharges the film
+                on = off = 0.5 / freq
+            else:
+                on = None if s.mode != "pulsed" else 1.0 / s.frequency - s.off_time
+                off = s.off_time
             area = bench.cathode_area * bench.racetrack_fraction
-            charging, more = charging_flags(bench.film, current, area, gamma, on, s.off_time)
+            charging, more = charging_flags(bench.film, current, area, gamma, on, off)
             flags += more
     return target, charging, flags

@@ -52,7 +52,14 @@ LIMITS: dict[str, Limit] = {
     "current": Limit("current", 1e-9, 1e4, "from a dark discharge to an arc supply"),
     "resistance": Limit("resistance", 1e-3, 1e10, "or 0 where no ballast is fitted", allow_zero=True),
     "temperature": Limit("temperature", 20.0, 3000.0, "where the ideal-gas density scaling holds"),
-    "frequency": Limit("frequency", 1.0, 1e8, "pulsed, AC and RF supplies"),
+    "frequency": Limit(
+        "frequency",
+        1.0,
+        1e8,
+        "pulsed, AC and RF supplies; above 100 MHz a bench-sized gap is no longer a small part of the "
+        "wavelength and the uniform-field model fails",
+    ),
+    "power": Limit("power", 1e-3, 1e6, "from a milliwatt probe to a megawatt generator"),
     "off_time": Limit("time", 1e-9, 10.0, "pulsed supplies"),
     "duration": Limit("time", 1e-3, 7 * 86400.0, "up to a week of unattended logging"),
     "area": Limit("area", 1e-8, 10.0, "from a pin to a large target"),

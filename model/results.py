@@ -13,7 +13,16 @@ if TYPE_CHECKING:
     from .glow import LoadLine
     from .reactive import Charging, TargetMode
 
-__all__ = ["LEVELS", "Afterglow", "Flag", "Forecast", "StrayResult", "finite_or_none", "json_safe"]
+__all__ = [
+    "LEVELS",
+    "Afterglow",
+    "Alternating",
+    "Flag",
+    "Forecast",
+    "StrayResult",
+    "finite_or_none",
+    "json_safe",
+]
 
 LEVELS = ("ok", "watch", "danger")
 """Flag levels, mildest first."""
@@ -64,6 +73,36 @@ class Afterglow:
 
 
 @dataclass(frozen=True)
+class Alternating:
+    """What an alternating (AC or RF) supply adds: the regime, both branches, the swings. Voltages
+    are amplitudes (peak) across the gap; rms = peak / sqrt(2), peak-to-peak = 2 peak."""
+
+    frequency: float
+    """Hz."""
+    regime: str
+    """One of :data:`strikeline.model.alternating.REGIMES`."""
+    volume_voltage: float | None
+    """The volume (diffusion-controlled) breakdown's lower branch here, V (None: none at this pd)."""
+    upper_voltage: float | None
+    """The upper branch, V: above it electrons are swept onto the electrodes (None: single-valued)."""
+    dc_like_voltage: float | None
+    """The DC (gamma) mechanism with gamma reduced by the ions' reach, V."""
+    dc_voltage: float | None
+    """The plain DC breakdown voltage of the same gap, V (for comparison)."""
+    turning_pd: float | None
+    """Reduced pd of the turning point, Pa m (None: no volume breakdown at this frequency and gap)."""
+    turning_pressure: float | None
+    """The pressure of the turning point at this gap, Pa."""
+    turning_voltage: float | None
+    ion_swing_ratio: float | None
+    """2 a_i / d at the DC breakdown voltage: 1 and above, the ions cross within a half period."""
+    electron_swing: float | None = None
+    """Electron oscillation amplitude at the applied voltage, m."""
+    effective_field: float | None = None
+    """E_eff at the applied voltage, V/m."""
+
+
+@dataclass(frozen=True)
 class Forecast:
     """What the model says about one operating point on one bench (SI units)."""
 
@@ -85,8 +124,9 @@ class Forecast:
     reduced_pd: float
     breakdown_voltage: float | None
     law: str
-    """"paschen", "uniform-field", "blend" (the two laws mixed near their meeting point) or "mixture"
-    (Townsend's criterion with attachment, for a mixture or an attaching gas)."""
+    """"paschen", "uniform-field", "blend" (the two laws mixed near their meeting point), "mixture"
+    (Townsend's criterion with attachment, for a mixture or an attaching gas) or "alternating" (an
+    AC or RF voltage, :mod:`.alternating`)."""
     minimum_pd: float
     minimum_voltage: float
     minimum_pressure: float
@@ -129,6 +169,9 @@ class Forecast:
     """Each flowing gas's expected partial pressure, flow / pumping speed, Pa (empty: flows or speed unknown)."""
     target: TargetMode | None = None
     charging: Charging | None = None
+    alternating: Alternating | None = None
+    not_applicable: tuple[tuple[str, str], ...] = ()
+    """(what, why) of the results that do not hold for this supply (an RF discharge has no load line)."""
     flags: tuple[Flag, ...] = field(default_factory=tuple)
 
     @property
@@ -234,6 +277,28 @@ class Forecast:
                 "time_s": c.time,
                 "on_time_s": c.on_time,
             }
+        if self.alternating is not None:
+            out["alternating"] = {
+                "frequency_Hz": self.alternating.frequency,
+                "voltages_are": "amplitude (peak) across the gap; rms = peak/sqrt(2), peak-to-peak = 2 peak",
+                **{
+                    name: getattr(self.alternating, key)
+                    for name, key in (
+                        ("regime", "regime"),
+                        ("volume_breakdown_V", "volume_voltage"),
+                        ("upper_branch_V", "upper_voltage"),
+                        ("dc_like_breakdown_V", "dc_like_voltage"),
+                        ("dc_breakdown_V", "dc_voltage"),
+                        ("turning_pd_Pa_m", "turning_pd"),
+                        ("turning_pressure_Pa", "turning_pressure"),
+                        ("turning_V", "turning_voltage"),
+                        ("ion_swing_ratio", "ion_swing_ratio"),
+                        ("electron_swing_m", "electron_swing"),
+                        ("effective_field_V_per_m", "effective_field"),
+                    )
+                },
+            }
+        out["not_applicable"] = [{"what": w, "why": why} for w, why in self.not_applicable]
         out["flags"] = [asdict(f) for f in self.flags]
         return json_safe(out)
 

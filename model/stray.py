@@ -19,14 +19,14 @@ _METHOD = "Paschen's law at each gap's own pd"
 
 
 def stray_gaps(
-    bench: Bench, breakdown: Callable[[float], float | None], p_eff: float, scale: float, vb: float | None
+    bench: Bench, breakdown: Callable[[float, float], float | None], p_eff: float, scale: float, vb: float | None
 ) -> tuple[StrayResult, ...]:
     """Each of the bench's stray gaps at pressure ``p_eff`` (Pa): its breakdown voltage, by
-    ``breakdown(reduced pd)``, and whether it breaks down at or below the main gap's ``vb`` (V).
-    ``scale`` turns actual pd into reduced pd."""
+    ``breakdown(reduced pd, length)``, and whether it breaks down at or below the main gap's ``vb``
+    (V). ``scale`` turns actual pd into reduced pd."""
     out = []
     for g in bench.stray_gaps:
-        v = breakdown(p_eff * g.length * scale)
+        v = breakdown(p_eff * g.length * scale, g.length)
         first = v is not None and (vb is None or v <= vb)
         out.append(StrayResult(g.name, g.length, v, first))
     return tuple(out)

@@ -22,6 +22,7 @@ from dataclasses import dataclass
 from . import constants as _c
 
 __all__ = [
+    "CONVENTIONS",
     "KINDS",
     "QuantityError",
     "convert",
@@ -29,7 +30,27 @@ __all__ = [
     "parse",
     "parse_pd",
     "units_of",
+    "from_amplitude",
+    "to_amplitude",
 ]
+
+CONVENTIONS = {"peak": 1.0, "rms": 1.0 / math.sqrt(2.0), "pp": 2.0}
+"""How an alternating voltage is quoted, as a multiple of its amplitude (a sine wave): peak
+(amplitude), rms, peak-to-peak. Inside the model every alternating voltage is an amplitude."""
+
+
+def to_amplitude(value: float, convention: str) -> float:
+    """The amplitude of an alternating voltage quoted as ``convention``.
+
+    >>> round(to_amplitude(100.0, "rms"), 3), to_amplitude(800.0, "pp")
+    (141.421, 400.0)
+    """
+    return value / CONVENTIONS[convention]
+
+
+def from_amplitude(amplitude: float, convention: str) -> float:
+    """An amplitude quoted as ``convention`` (peak, rms or pp)."""
+    return amplitude * CONVENTIONS[convention]
 
 
 class QuantityError(ValueError):
@@ -98,7 +119,9 @@ _KINDS: dict[str, _Kind] = {
     ),
     "temperature": _Kind("temperature", "K", {"K": 1.0}, '"293 K", "20 C"'),
     "field": _Kind("field", "T", {"T": 1.0, "mT": _c.milli, "G": 1e-4, "gauss": 1e-4}, '"30 mT", "300 G"'),
-    "frequency": _Kind("frequency", "Hz", {"Hz": 1.0, "kHz": _c.kilo, "MHz": _c.mega}, '"20 kHz"'),
+    "frequency": _Kind(
+        "frequency", "Hz", {"Hz": 1.0, "kHz": _c.kilo, "MHz": _c.mega, "GHz": 1e9}, '"20 kHz", "13.56 MHz"'
+    ),
     "time": _Kind(
         "time",
         "s",
@@ -120,6 +143,7 @@ _KINDS: dict[str, _Kind] = {
         },
         '"20 sccm", "0.5 slm", "0.03 Pa m3/s"',
     ),
+    "power": _Kind("power", "W", {"W": 1.0, "kW": _c.kilo, "mW": _c.milli}, '"300 W", "1.2 kW"'),
     # Pumping speed: volume per time at the chamber.
     "speed": _Kind(
         "speed",

@@ -1,7 +1,7 @@
 """Bench profiles: load and validate a bench file (or a built-in bench) into a :class:`BenchProfile`.
 
-A bench file holds [bench], [supply], [[stray_gap]], [chamber], [[port]], [flows], [target] and
-[curve] sections;
+A bench file holds [bench], [supply], [[stray_gap]], [chamber], [[port]], [flows], [target],
+[strike_detect] and [curve] sections;
 every problem is one line naming the file, the section, the field and the accepted form. A
 fitted curve is saved back into the file atomically, the rest of the file kept as written.
 """
@@ -16,7 +16,7 @@ from importlib import resources
 from pathlib import Path
 
 from ..drivers.specs import PortSpec
-from ..model.bench import Bench, BenchCurve, Chamber, StrayGap, Supply
+from ..model.bench import Bench, BenchCurve, Chamber, StrayGap
 from ..model.gauges import GaugeCorrection
 from .benchcurve import curve_section, with_curve_section
 from .fields import ProfileError, Table, read_toml
@@ -24,6 +24,7 @@ from .fill import Fill, fill_field, find_film, with_fill
 from .gasdata import find_cathode, find_gas
 from .gauges import gauge_correction
 from .ports import port_sections
+from .supply import StrikeDetection, detect_section, supply_section
 
 __all__ = [
     "BUILTIN_BENCHES",
@@ -35,7 +36,7 @@ __all__ = [
     "write_atomic",
 ]
 
-BUILTIN_BENCHES = ("demo", "demo-magnetron", "demo-reactive")
+BUILTIN_BENCHES = ("demo", "demo-magnetron", "demo-reactive", "demo-rf")
 
 
 @dataclass(frozen=True)
@@ -55,6 +56,8 @@ class BenchProfile:
     """Gas correction by pressure-channel name."""
     flows: Mapping[str, str] = field(default_factory=dict)
     """The flow channel of each gas, by gas key ([flows] channels): the composition follows them."""
+    detection: StrikeDetection = field(default_factory=StrikeDetection)
+    """When the instruments' readings say the gas broke down ([strike_detect])."""
 
 
 _BENCH_FIELDS = (
@@ -69,7 +72,7 @@ _BENCH_FIELDS = (
     "cathode_area",
     "magnetic_field",
 )
-_SECTIONS = ("bench", "supply", "stray_gap", "chamber", "port", "flows", "target", "curve")
+_SECTIONS = ("bench", "supply", "stray_gap", "chamber", "port", "flows", "target", "strike_detect", "curve")
 
 
 def load_bench(ref: str | os.PathLike[str]) -> BenchProfile:
@@ -101,22 +104,7 @@ def parse_bench(text: str, label: str, path: Path | None) -> BenchProfile:
     b.only(_BENCH_FIELDS)
     fill = fill_field(b, "gas")
     cathode = b.lookup("cathode", find_cathode)
-    supply = None
-    if (s := top.sub("supply")) is not None:
-        s.only(("open_circuit_voltage", "current_limit", "ballast", "mode", "frequency", "off_time"))
-        mode = s.string("mode", default="dc", choices=("dc", "pulsed")).casefold()
-        freq = s.quantity("frequency", "frequency", required=mode == "pulsed")
-        off = s.quantity("off_time", "off_time", required=mode == "pulsed")
-        if mode == "pulsed" and off >= 1.0 / freq:
-            raise s.fail("off_time", f"{s.data['off_time']!r} is not shorter than one period (1/frequency)")
-        supply = Supply(
-            open_circuit_voltage=s.quantity("open_circuit_voltage", "voltage"),
-            current_limit=s.quantity("current_limit", "current", required=False),
-            ballast=s.quantity("ballast", "resistance", required=False) or 0.0,
-            mode=mode,
-            frequency=freq if mode == "pulsed" else None,
-            off_time=off if mode == "pulsed" else None,
-        )
+    supply = None if (s := top.sub("supply")) is None else supply_section(s)
     stray: list[StrayGap] = []
     if "stray_gap" in raw:
         items = raw["stray_gap"]
@@ -158,7 +146,8 @@ def parse_bench(text: str, label: str, path: Path | None) -> BenchProfile:
         curve=curve,
     )
     description = b.string("description", default="") if b.has("description") else ""
-    return BenchProfile(bench, path, label, description, ports, gauges, flows)
+    detection = detect_section(top.sub("strike_detect"))
+    return BenchProfile(bench, path, label, description, ports, gauges, flows, detection)
 
 
 def _flows_section(t: Table | None, ports) -> tuple[dict[str, str], float | None]:

@@ -56,7 +56,17 @@ _POLL = Limit("time", 1e-3, 3600.0, "a millisecond to an hour")
 _TIMEOUT = Limit("time", 1e-3, 60.0, "a millisecond to a minute")
 _STALE = Limit("time", 1e-3, 3600.0, "a millisecond to an hour")
 _OWN = "the instrument's own range"
-_KIND = {"pressure": "pressure", "voltage": "voltage", "current": "current", "flow": "flow", "state": None}
+_KIND = {
+    "pressure": "pressure",
+    "voltage": "voltage",
+    "current": "current",
+    "flow": "flow",
+    "state": None,
+    "forward_power": "power",
+    "reflected_power": "power",
+    "self_bias": "voltage",
+    "rf_voltage": "voltage",
+}
 
 
 def ascii_field(t: Table, key: str) -> bytes:

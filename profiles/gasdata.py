@@ -83,6 +83,8 @@ def _gas_tables() -> tuple[dict[str, Gas], dict[str, str]]:
             attachment=_attachment(t.sub("attachment")),
             metastable_energy=t.number("metastable_energy_eV", 1, 30, required=False),
             reactive=bool(t.data.get("reactive", False)),
+            electron_mobility_p=t.number("electron_mobility_cm2_Torr_per_V_s", 1e3, 1e8) * _c.centi**2 * _c.torr,
+            characteristic_energy=t.number("characteristic_energy_eV", 0.01, 100),
         )
     return out, names
 

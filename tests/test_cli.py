@@ -204,8 +204,11 @@ def test_curve_csv_over_pressure_with_a_gap(capsys):
         "law",
         "constants",
         "gas",
+        "regime",
+        "upper_V",
     }
     assert {r["constants"] for r in rows} == {"textbook"} and {r["gas"] for r in rows} == {"argon"}
+    assert {r["regime"] for r in rows} == {"dc"} and {r["upper_V"] for r in rows} == {""}
     assert float(rows[0]["pressure_Pa"]) == pytest.approx(1.0) and float(rows[-1]["pressure_Pa"]) == pytest.approx(
         1000.0
     )

@@ -34,6 +34,14 @@ def _point(p, V=None, d=0.03, T=293.0, flows=(), current=None):
     return OperatingPoint(p, d, V, T, flows, current)
 
 
+def _ac(p, f, d=0.03, V=None):
+    return OperatingPoint(p, d, V, 293.0, frequency=f)
+
+
+RF = 13.56e6
+_AC_LEAD = r"voltages are amplitudes \(peak\)"
+
+
 def _mixed(text: str, **kw) -> Bench:
     fill = read_fill(text)
     return _bench(gas=fill.gas, mixture=fill.mixture, **kw)
@@ -395,6 +403,75 @@ CASES = [
         "charging_held",
         rf"the Al2O3 film on the target charges to breakdown in {N} us under {N} mA/cm\^2 of ions, longer than the "
         rf"{N} us on-time: each pulse ends first",
+    ),
+    (
+        "AC, DC-like",
+        _bench(),
+        _ac(20.0, 50.0),
+        "ac_regime",
+        r"50 Hz: DC-like: the ions cross the gap within a half period, so each half cycle breaks down as DC; "
+        + _AC_LEAD,
+    ),
+    (
+        "AC, intermediate",
+        _bench(),
+        _ac(40.0, 40e3),
+        "ac_regime",
+        r"40 kHz: intermediate: fewer ions reach the cathode each half period, so gamma counts for less; " + _AC_LEAD,
+    ),
+    (
+        "RF, volume",
+        _bench(),
+        _ac(30.0, RF),
+        "ac_regime",
+        r"13.56 MHz: RF volume breakdown: electrons made and lost in the gas, by diffusion; " + _AC_LEAD,
+    ),
+    (
+        "RF, drift-limited",
+        _bench(gap=0.01),
+        _ac(151.57, RF, d=0.01),
+        "ac_regime",
+        r"13.56 MHz: drift-limited: the electrons' swing spans over half the gap, sweeping many onto the "
+        r"electrodes each half period; " + _AC_LEAD,
+    ),
+    (
+        "RF, none",
+        _bench(),
+        _ac(5.0, RF),
+        "ac_regime",
+        r"13.56 MHz: no breakdown at this pd; " + _AC_LEAD,
+    ),
+    (
+        "RF above the upper branch",
+        _bench(),
+        _ac(25.0, RF, V=500.0),
+        "above_upper_branch",
+        rf"{N} V is above the upper branch \({N} V\) at this pressure: the electrons' swing sweeps them onto the "
+        r"electrodes each half period, so more voltage does not strike it; raise the pressure or lower the voltage",
+    ),
+    (
+        "RF below the turning point",
+        _bench(),
+        _ac(12.0, RF),
+        "below_turning_point",
+        rf"the pressure is below the turning point of the RF curve \({N} Pa at this gap\): no volume breakdown "
+        r"exists here at any voltage; raise the pressure above it",
+    ),
+    (
+        "RF gap against the wavelength",
+        _bench(gap=0.5),
+        _ac(20.0, 1e8, d=0.5),
+        "gap_vs_wavelength",
+        rf"the gap \(500 mm\) is over 10% of the wavelength \({N} m at 100 MHz\): the field is no longer uniform "
+        r"and this forecast does not hold",
+    ),
+    (
+        "RF on a magnetron",
+        load_bench("demo-magnetron").bench,
+        _ac(0.5, RF, d=0.06),
+        "crossed_field_not_applied",
+        r"magnetised cathode: the crossed-field effective pressure is a DC treatment and is not applied to this "
+        r"alternating supply; the magnet confines electrons, so breakdown is likely lower than forecast",
     ),
     (
         "crossed field",

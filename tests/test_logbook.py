@@ -295,7 +295,7 @@ def test_log_verb_exports_strike_marks_for_calibration(tmp_path, capsys):
     out = tmp_path / "strikes.csv"
     assert cli.main(["log", str(_known_log(tmp_path)), "--strikes", str(out)]) == 0
     text = capsys.readouterr().out
-    assert "strike marks (1)" in text and "gaps and faults (1 gaps, 1 faults" in text
+    assert "strike marks (1: 0 seen by the instruments" in text and "gaps and faults (1 gaps, 1 faults" in text
     assert "08:00:12.000  argon:80,oxygen:20 (typed)" in text
     assert out.read_text().splitlines() == ["pressure_Pa,gap_m,voltage_V,gas", '20.0,0.03,450.0,"argon:80,oxygen:20"']
     assert cli.main(["log", str(tmp_path / "none.jsonl")]) == 2

@@ -139,7 +139,17 @@ def _bench(extra: str = "", bench: str = 'gas = "Ar"\ncathode = "Cu"\ngap = "30 
             _bench(bench='gas = "Ar"\ncathode = "Cu"\ngap = "3 mm"\ngamma = 2'),
             "gamma: 2 is not a number from 1e-06 to 1",
         ),
-        (_bench('[supply]\nopen_circuit_voltage = "1 kV"\nmode = "ac"'), "'ac' is not one of dc, pulsed"),
+        (_bench('[supply]\nopen_circuit_voltage = "1 kV"\nmode = "rf"'), "'rf' is not one of dc, pulsed, ac"),
+        (_bench('[supply]\nopen_circuit_voltage = "1 kV"\nmode = "ac"'), "unknown field"),
+        (_bench('[supply]\nmode = "ac"\nfrequency = "13.56 MHz"'), "give the electrodes' voltage once"),
+        (
+            _bench('[supply]\nmode = "ac"\nfrequency = "13.56 MHz"\namplitude = "400 V"\nvoltage_pp = "800 V"'),
+            "(got amplitude, voltage_pp)",
+        ),
+        (_bench('[supply]\nmode = "ac"\namplitude = "400 V"'), "frequency: missing"),
+        (_bench('[supply]\nmode = "ac"\namplitude = "400 V"\nfrequency = "1 GHz"'), "outside 1 to 1e+08 Hz"),
+        (_bench('[strike_detect]\nlit_current = "0.5 mA"'), "is not above dark_current"),
+        (_bench("[strike_detect]\nvoltage_fall = 2"), "voltage_fall"),
         (_bench('[supply]\nopen_circuit_voltage = "1 kV"\nmode = "pulsed"'), "frequency: missing"),
         (
             _bench(

@@ -103,3 +103,16 @@ def test_reactive_example_is_the_reactive_demos_own():
     assert example["flows"] == demo["flows"] and example["target"] == demo["target"]
     assert example["bench"]["gas"] == demo["bench"]["gas"]
     assert load_bench("demo-reactive").bench.pumping_speed == pytest.approx(0.25)
+
+
+def test_ac_supply_and_strike_detect_example_load_and_state_the_defaults():
+    # The README's [supply] (AC) and [strike_detect] example loads, and the thresholds it writes out
+    # are the defaults it says they are.
+    from strikeline.profiles.loader import parse_bench
+    from strikeline.profiles.supply import DETECT_DEFAULTS
+
+    block = block_with("[strike_detect]")
+    p = parse_bench('[bench]\ngas = "argon"\ncathode = "Cu"\ngap = "25 mm"\n' + block, "readme.toml", None)
+    s = p.bench.supply
+    assert s.mode == "ac" and s.frequency == pytest.approx(13.56e6) and s.open_circuit_voltage == pytest.approx(200.0)
+    assert p.detection == DETECT_DEFAULTS

@@ -329,3 +329,31 @@ async def test_a_reactive_bench_shows_its_fill_target_and_the_change_from_the_fl
         assert "gas         Ar 83%+O2 17% (flows)" in shown and "target      transition, " in shown
         assert "Ar 83%+O2 17% / Al" in text_of(app, "title")
         assert any("gas from the flows: Ar 83%+O2 17% (steady state" in e for e in app.events)
+
+
+async def test_an_rf_bench_names_its_supply_and_a_seen_strike_is_kept_with_one_key():
+    clock = Clock(100.0)
+    app = make_app(load_bench("demo-rf"), log=False, show_caution=False, clock=clock, start_sources=False)
+    async with app.run_test(size=(80, 24)) as pilot:
+        feed = [
+            ("chamber", "pressure", 40.0, 99.8),
+            ("electrode-vpp", "rf_voltage", 180.0, 99.8),
+            ("self-bias", "self_bias", -0.3, 99.8),
+            ("electrode-vpp", "rf_voltage", 220.0, 99.9),
+            ("self-bias", "self_bias", -0.2, 99.9),
+            ("electrode-vpp", "rf_voltage", 170.0, 100.0),
+            ("self-bias", "self_bias", -45.0, 100.0),
+        ]
+        for channel, quantity, value, t in feed:
+            app.session.handle(reading(value, t, channel=channel, quantity=quantity))
+        app.post_message(Fresh(0.0))
+        await pilot.pause()
+        assert "AC 13.56 MHz pk" in text_of(app, "title") and "regime" in text_of(app, "readouts")
+        assert "strike seen: 110 V at 40 Pa" in text_of(app, "message") and "y keeps it" in text_of(app, "message")
+        await pilot.press("y")
+        await pilot.pause()
+        (mark,) = app.session.strikes
+        assert mark.made_by == "detected" and mark.voltage == 110.0  # half the 220 V peak-to-peak
+        await pilot.press("o")
+        await pilot.pause()
+        assert "AC 13.56 MHz rms" in text_of(app, "title") and " V rms" in text_of(app, "readouts")

@@ -14,7 +14,7 @@ from ..model.breakdown import breakdown_law
 from ..model.calibration import FitResult, fit_curve
 from ..model.forecast import forecast
 
-__all__ = ["Calibration", "calibrate", "parse_free"]
+__all__ = ["Calibration", "calibrate", "dc_like", "parse_free"]
 
 
 @dataclass(frozen=True)
@@ -42,6 +42,27 @@ def parse_free(text: str) -> tuple[str, ...]:
     return tuple(dict.fromkeys(out))
 
 
+def dc_like(bench: Bench, points: list, labels: list[str]) -> tuple[list, list[str], list[str]]:
+    """The marks Paschen's law describes: all of a DC or pulsed bench's, and those of an AC bench
+    made where each half cycle breaks down as DC. (points, labels, why each other mark is left out)."""
+    s = bench.supply
+    if s is None or s.mode != "ac":
+        return list(points), list(labels), []
+    keep, names, problems = [], [], []
+    for point, label in zip(points, labels, strict=True):
+        p, d, _volts, temp = point
+        f = forecast(OperatingPoint(p, d, None, temp or bench.gas_temperature), replace(bench, curve=None))
+        if f.alternating is not None and f.alternating.regime == "dc-like":
+            keep.append(point)
+            names.append(label)
+        else:
+            regime = "no breakdown" if f.alternating is None else f.alternating.regime
+            problems.append(
+                f"{label}: {regime} breakdown at {s.frequency:g} Hz, which Paschen's law does not describe; left out"
+            )
+    return keep, names, problems
+
+
 def calibrate(
     bench: Bench,
     points: list[tuple[float, float, float, float | None]],
@@ -49,8 +70,9 @@ def calibrate(
     free: tuple[str, ...] = ("A", "B"),
     today: str | None = None,
 ) -> Calibration:
-    """Fit the bench's curve to (pressure Pa, gap m, voltage V, temperature K or None) points."""
-    textbook_bench = replace(bench, curve=None)
+    """Fit the bench's curve to (pressure Pa, gap m, voltage V, temperature K or None) points.
+    Paschen's law is a DC law: an AC bench's marks go through :func:`dc_like` first."""
+    textbook_bench = replace(bench, curve=None, supply=None)
     pd, v, vb = [], [], []
     for p, d, volts, temp in points:
         f = forecast(OperatingPoint(p, d, None, temp or bench.gas_temperature), textbook_bench)

@@ -52,7 +52,7 @@ class CalibrationScreen(ModalScreen[None]):
     def refit(self) -> None:
         from ..model.calibration import FitRefused
         from ..model.composition import same_composition
-        from .calibrate import calibrate, calibration_summary, parse_free
+        from .calibrate import calibrate, calibration_summary, dc_like, parse_free
 
         s = self.main.session
         fill = s.bench.composition
@@ -60,6 +60,7 @@ class CalibrationScreen(ModalScreen[None]):
         text = self.query_one("#calib-text", Static)
         pts = [(m.pressure, m.gap, m.voltage, m.gas_temperature) for m in marks]
         labels = [f"mark {i + 1}" for i in range(len(marks))]
+        pts, labels, _left_out = dc_like(s.bench, pts, labels)
         try:
             self.cal = calibrate(replace(s.bench, curve=None), pts, labels, parse_free(self.free))
         except FitRefused as e:

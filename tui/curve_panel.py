@@ -40,11 +40,14 @@ def live_curve(
     """
     import numpy as np
 
-    from ..model.breakdown import breakdown_law
+    from ..model.breakdown import alternating_law, breakdown_law
 
     if width < 20 or height < 6:
         return None
-    law = breakdown_law(replace(bench, curve=None))  # the textbook line; a fit is drawn over it
+    textbook = replace(bench, curve=None)  # the textbook line; a fit is drawn over it
+    s = bench.supply
+    freq = s.frequency if s is not None and s.mode == "ac" else None
+    law = breakdown_law(textbook) if freq is None else alternating_law(textbook, freq, values["gap"])
     gamma = law.gamma
     f = view.forecast if view is not None else None
     T = values["temperature"]
@@ -63,6 +66,7 @@ def live_curve(
         hi = max(hi, f.reduced_pd * 3)
     rpd = np.geomspace(lo, hi, max(width * 2, 60))
     vb, _w = law.voltage(rpd)
+    upper = None if freq is None else tuple(law.upper(rpd))
     to_x = pd_display(1.0, units)
     point = None
     if f is not None:
@@ -77,6 +81,7 @@ def live_curve(
         )
     )
     key = (bench.composition, bench.cathode.key, gamma, values["voltage"], units, width, height, bucket, T, ratio)
+    key += (freq, values["gap"] if freq is not None else None)
     key += (bench.curve,)
     inputs = CurveInputs(
         pd=tuple(rpd / k * to_x),
@@ -84,7 +89,8 @@ def live_curve(
         point=point,
         minimum=(pd_min / k * to_x, v_min),
         supply=values["voltage"],
-        fitted=_fitted(bench, rpd, k, to_x),
+        fitted=None if freq is not None else _fitted(bench, rpd, k, to_x),
+        upper=upper,
         pd_unit=" ".join(UNIT_SYSTEMS[units][2]),
         width=width,
         height=height,

@@ -37,6 +37,9 @@ BINDINGS = [
     Binding("pagedown", f"nudge({1 / COARSE})", "coarse", show=False),
     Binding("f", "follow", "gauge", show=False),
     Binding("u", "units", "units"),
+    Binding("o", "convention", "volts as", show=False),
+    Binding("y", "keep", "keep strike", show=False),
+    Binding("n", "drop", "drop strike", show=False),
     Binding("space", "pause", "pause"),
     Binding("s", "strike", "strike!"),
     Binding("d", "flags", "flags"),
@@ -59,6 +62,8 @@ HELP_KEYS = [
     ("u", "units: SI (Pa, mm) / mbar / Torr"),
     ("space", "pause / resume the live view (readings are still logged)"),
     ("s", "mark a strike: you saw ignition at this point"),
+    ("y  n", "keep or drop a strike the instruments saw (proposed on the message line)"),
+    ("o", "an AC or RF supply's voltages as peak / rms / peak-to-peak"),
     ("d", "all flags with their full reasons"),
     ("k", "calibration: fit this bench's curve to its strike marks"),
     ("escape", "cancel typing"),
@@ -113,7 +118,7 @@ class KeyActions:
         elif field == "cathode":
             err = self.session.set_cathode(text)
         else:
-            err = self.session.set_value(field, text)
+            err = self.session.set_value(field, text, self.convention)
         if err:
             self.note(f"{err} (the old {field} is kept)", error=True)
             self.record_event(f"refused: {err}")
@@ -177,6 +182,30 @@ class KeyActions:
             self.note(f"{text} ({len(self.session.strikes)} this session)")
         else:
             self.note(mark, error=True)
+
+    def action_keep(self) -> None:
+        mark = self.session.marks.keep()
+        if mark is None:
+            self.note("no strike proposed to keep")
+            return
+        text = f"strike kept: {mark.pressure:.4g} Pa, {mark.voltage:.0f} V ({mark.note})"
+        self.record_event(text)
+        self.note(f"{text}; {len(self.session.strikes)} marks this session")
+
+    def action_drop(self) -> None:
+        gone = self.session.marks.drop()
+        if gone is None:
+            self.note("no strike proposed to drop")
+            return
+        self.record_event(f"strike dropped ({gone.proposal.signal})")
+        self.note("proposed strike dropped")
+
+    def action_convention(self) -> None:
+        order = ("peak", "rms", "pp")
+        self.convention = order[(order.index(self.convention) + 1) % len(order)]
+        ac = self.session.alternating
+        self.note(f"voltages as {self.convention}" + ("" if ac else " (for an AC or RF supply; this one is not)"))
+        self.refresh_view()
 
     def action_flags(self) -> None:
         from .dialogs import FlagsScreen

@@ -10,6 +10,8 @@ from ..drivers.logbook import LogRead
 
 __all__ = ["STRIKE_COLUMNS", "strike_rows", "summarise"]
 
+_STRIKE_EVENTS = ("strike proposed", "strike dropped", "strike unproposed")
+"""Events of the strikes the instruments showed (not faults)."""
 STRIKE_COLUMNS = ("pressure_Pa", "gap_m", "voltage_V", "gas")
 """The calibration CSV's columns (``strikeline fit`` reads them; it skips strikes in another gas fill)."""
 _NEEDED = STRIKE_COLUMNS[:3]
@@ -56,7 +58,8 @@ def summarise(log: LogRead) -> dict[str, Any]:
         "records": len(recs),
         "readings": {ch: dict(c) for ch, c in sorted(per.items())},
         "gaps": sorted(gaps, key=lambda g: g["from"]),
-        "faults": [e for e in events if e.get("event") not in ("connected", "counts")],
+        "faults": [e for e in events if e.get("event") not in ("connected", "counts", *_STRIKE_EVENTS)],
+        "proposed_strikes": [e for e in events if e.get("event") in _STRIKE_EVENTS],
         "port_counts": [e for e in events if e.get("event") == "counts"],
         "connections": sum(1 for e in events if e.get("event") == "connected"),
         "strikes": [r for r in recs if r.get("kind") == "strike"],

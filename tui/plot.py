@@ -31,6 +31,9 @@ class CurveInputs:
     """(pd, V_b, low, high) of a fitted bench curve and its band."""
     marks: tuple[tuple[float, float], ...] = ()
     """Recorded strikes (pd, V)."""
+    upper: tuple[float, ...] | None = None
+    """The upper branch of an alternating supply's curve at the same pd (NaN where single-valued):
+    the curve turns back at low pressure, and the supply strikes only between the two branches."""
     pd_unit: str = "Pa m"
     width: int = 40
     height: int = 12
@@ -85,8 +88,13 @@ def curve_picture(c: CurveInputs) -> str:
                 plt.plot(list(lx[run]), list(np.log10(values[run])), marker=marker, color=colour)
 
     ys = [y[ok]]
+    up = np.full(y.shape, np.nan) if c.upper is None else np.asarray(c.upper, dtype=float)
+    above = np.isfinite(up) & (up > 0)
+    if above.any():
+        line(above, up, "dot", "cyan")
+        ys.append(up[above][up[above] <= 100 * float(np.min(y[ok]))])  # never let it crush the scale
     if c.supply is not None and c.supply > 0:
-        strikes = ok & (y <= c.supply)
+        strikes = ok & (y <= c.supply) & ~(above & (up < c.supply))
         line(ok & ~strikes, y, "dot", "cyan")
         line(strikes, y, "braille", "green")
         plt.hline(math.log10(c.supply), "yellow")

@@ -18,10 +18,23 @@ READING_BOUNDS = {
     "voltage": (-LIMITS["voltage"].high, LIMITS["voltage"].high),  # a read-back may be 0 or negative
     "current": (-LIMITS["current"].high, LIMITS["current"].high),
     "flow": (-LIMITS["flow"].high, LIMITS["flow"].high),  # a controller's offset may read below 0
+    "forward_power": (-LIMITS["power"].high, LIMITS["power"].high),
+    "reflected_power": (-LIMITS["power"].high, LIMITS["power"].high),
+    "self_bias": (-LIMITS["voltage"].high, LIMITS["voltage"].high),  # negative on the powered electrode
+    "rf_voltage": (-LIMITS["voltage"].high, LIMITS["voltage"].high),
 }
 """A reading outside these (SI) is far out of any instrument's range."""
 
-_UNITS = {"pressure": "Pa", "voltage": "V", "current": "A", "flow": "Pa m3/s"}
+_UNITS = {
+    "pressure": "Pa",
+    "voltage": "V",
+    "current": "A",
+    "flow": "Pa m3/s",
+    "forward_power": "W",
+    "reflected_power": "W",
+    "self_bias": "V",
+    "rf_voltage": "V",
+}
 
 
 class ReadingLimits:

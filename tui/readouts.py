@@ -9,9 +9,9 @@ from __future__ import annotations
 from typing import TYPE_CHECKING
 
 from ..drivers.reading import Reading
-from ..model.units import convert, format_value
+from ..model.units import convert, format_value, from_amplitude
 from .session import View
-from .text import UNIT_SYSTEMS, amps, pd_text, state_word
+from .text import CONVENTION_TAG, UNIT_SYSTEMS, amps, pd_text, state_word
 
 if TYPE_CHECKING:
     from ..model.forecast import Forecast
@@ -45,17 +45,28 @@ _STATUS_WORD = {
 NUDGE_FIELDS = ("pressure", "gap", "voltage")
 
 
-def _v(x: float | None, unit: str = "V") -> str:
-    return "none" if x is None else format_value(x, "voltage", unit)
+def _v(x: float | None, convention: str | None = None) -> str:
+    """A voltage; an alternating supply's (an amplitude inside) shown as ``convention``."""
+    if x is None:
+        return "none"
+    if convention is None:
+        return format_value(x, "voltage", "V")
+    return format_value(from_amplitude(x, convention), "voltage", "V") + f" {CONVENTION_TAG[convention]}"
 
 
 def readout_lines(
-    view: View, system: str, selected: str, manual_gap: float, voltage: float | None, fill: str = ""
+    view: View,
+    system: str,
+    selected: str,
+    manual_gap: float,
+    voltage: float | None,
+    fill: str = "",
+    convention: str | None = None,
 ) -> list[tuple[str, str, str]]:
     """(label, value, style) rows of the readouts panel; style is "", "bad", "warn" or "good".
     ``fill`` is the gas fill in a few characters; a mixture, or a fill from the flow meters, gets a
     row of its own, and a reactive process a row for the target (both last: a short terminal clips
-    them first)."""
+    them first). ``convention`` (peak, rms or pp) shows an alternating supply's voltages."""
     pu, lu, _ = UNIT_SYSTEMS[system]
     p = view.pressure
     mark = {name: (">" if selected == name else " ") for name in NUDGE_FIELDS}
@@ -77,7 +88,7 @@ def readout_lines(
         ind = "-" if p.indicated is None else format_value(p.indicated, "pressure", pu)
         rows.append(("  indicated", f"{ind} ({p.source})", ""))
     rows.append((f"{mark['gap']}gap", format_value(manual_gap, "length", lu), ""))
-    rows.append((f"{mark['voltage']}supply", _v(voltage), ""))
+    rows.append((f"{mark['voltage']}supply", _v(voltage, convention), ""))
     f = view.forecast
     if f is None:
         rows.append(("FORECAST", "WITHDRAWN", "bad"))
@@ -86,27 +97,36 @@ def readout_lines(
             rows.append((label, "--", ""))
         return rows + _fill_rows(view, fill)
     rows.append(("pd", pd_text(f.pd, system), ""))
+    k = 1.0 if convention is None else from_amplitude(1.0, convention)
+    tag = "" if convention is None else f" {CONVENTION_TAG[convention]}"
     if f.breakdown_voltage is None:
         rows.append(("breakdown", "none at any voltage", "warn"))
     else:
         lo, hi = f.breakdown_band
-        band = "" if lo is None or hi is None else f" ({lo:.0f}-{hi:.0f})"
-        rows.append(("breakdown", f"{f.breakdown_voltage:.0f} V{band}", ""))
+        band = "" if lo is None or hi is None else f" ({lo * k:.0f}-{hi * k:.0f})"
+        rows.append(("breakdown", f"{f.breakdown_voltage * k:.0f} V{tag}{band}", ""))
     if f.margin is None:
         rows.append(("margin", "none", "warn"))
     else:
-        rows.append(("margin", f"{f.margin:+.0f} V {f.margin_fraction:+.0%}", "good" if f.strikes else "warn"))
+        rows.append(("margin", f"{f.margin * k:+.0f} V {f.margin_fraction:+.0%}", "good" if f.strikes else "warn"))
     if f.alpha_d is not None:
         gain = f"{f.gain:.3g}" if f.gain is not None and f.gain < 1e300 else ">1e300"
         rows.append(("gain", f"{gain} (alpha d {f.alpha_d:.3g})", ""))
         rows.append(("E/N", f"{f.E_over_N_Td:.3g} Td", ""))
+    elif f.voltage is not None:  # volume breakdown: no transit, no avalanche across the gap
+        rows.append(("gain", "n/a (volume breakdown)", ""))
+        rows.append(("E_eff/N", f"{f.E_over_N_Td:.3g} Td", ""))
     else:
         rows.append(("gain", "-- (no voltage)", ""))
         rows.append(("E/N", "--", ""))
     side = {"left": "left of minimum", "right": "right of minimum", "none": "left of asymptote"}[f.branch]
     rows.append(("branch", side, ""))
     ll = f.load_line
-    if ll is None:
+    a = f.alternating
+    if a is not None:
+        up = "" if a.upper_voltage is None else f", up to {a.upper_voltage * k:.0f} V"
+        rows.append(("regime", f"{a.regime}{up}", "warn" if a.regime in ("drift-limited", "none") else ""))
+    elif ll is None:
         rows.append(("glow", "no strike" if not f.strikes else "no supply data", ""))
     else:
         rows.append(

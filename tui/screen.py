@@ -27,7 +27,7 @@ from .messages import Fresh, LogbookNote, PortNote, ReplayNote, Skipped
 from .plot import LEGEND
 from .readouts import LEVEL_STYLE, STYLE, channel_line, flag_lines, readout_lines, sparkline
 from .session import Session
-from .text import UNIT_SYSTEMS, fill_label
+from .text import UNIT_SYSTEMS, fill_label, supply_label
 
 __all__ = ["StrikelineApp"]
 
@@ -75,6 +75,8 @@ class StrikelineApp(KeyActions, App[None]):
         self.plot_interval = plot_interval
         self.units = units
         self.selected = "pressure"
+        self.convention = "peak"
+        """How an alternating supply's voltages are shown and typed: peak, rms or pp."""
         self.paused = False
         self.leaving = False
         """Set once the screen is quitting: nothing more is drawn and no source runs."""
@@ -229,6 +231,11 @@ class StrikelineApp(KeyActions, App[None]):
         view = self.session.view(self.clock())
         previous = self.view_
         self.view_ = view
+        for pending in view.proposed:
+            m = pending.mark
+            text = f"strike seen: {m.voltage:.0f} V at {m.pressure:.4g} Pa ({pending.proposal.signal})"
+            self.record_event(text)
+            self.note(f"{text}: y keeps it as a mark, n drops it", error=True)
         if self.session.bench.composition != fill_before and view.fill_source == "flows":
             self.plot_stale = True
             self.record_event(
@@ -246,7 +253,8 @@ class StrikelineApp(KeyActions, App[None]):
         gamma = b.yield_().value if f is None else f.gamma  # a mixture's is the forecast's
         t = Text()
         t.append("strikeline ", style="bold")
-        t.append(f"{self.session.profile.label} | {fill_label(b)} / {b.cathode.symbol} | γ {gamma:.3g} | {self.units}")
+        t.append(f"{self.session.profile.label} | {fill_label(b)} / {b.cathode.symbol} | γ {gamma:.3g}")
+        t.append(f" | {supply_label(b.supply, self.convention)} | {self.units}")
         if self.paused:
             t.append(" | PAUSED", style="bold reverse")
         if self.logbook_trouble:
@@ -273,7 +281,9 @@ class StrikelineApp(KeyActions, App[None]):
 
     def _draw_readouts(self, view) -> None:
         v = self.session.values
-        rows = readout_lines(view, self.units, self.selected, v["gap"], v["voltage"], fill_label(self.session.bench))
+        convention = self.convention if self.session.alternating else None
+        fill = fill_label(self.session.bench)
+        rows = readout_lines(view, self.units, self.selected, v["gap"], v["voltage"], fill, convention)
         for i in range(READOUT_LINES):
             t = Text(no_wrap=True, overflow="ellipsis")
             if i < len(rows):

@@ -22,7 +22,9 @@ from ..model.gauges import correct
 from ..model.limits import LIMITS, parse_within
 from ..profiles.fill import Fill, read_fill, with_fill
 from ..profiles.loader import BenchProfile, find_cathode, gauge_correction
+from .detect import StrikeDetector
 from .fillwatch import STEADY_STATE, FillWatch
+from .marks import Pending, StrikeMark, StrikeMarks
 from .readinglimits import ReadingLimits
 
 if TYPE_CHECKING:  # the numeric model loads with the first forecast, not with the screen
@@ -32,23 +34,6 @@ __all__ = ["FIELDS", "PressureNow", "Session", "StrikeMark", "View"]
 
 FIELDS = ("pressure", "gap", "voltage", "temperature")
 """What the operator may type; each is read inside its physical limit (model/limits.py)."""
-
-
-@dataclass(frozen=True)
-class StrikeMark:
-    """The operator saw the bench strike here."""
-
-    t_wall: float
-    pressure: float
-    """True pressure, Pa."""
-    gap: float
-    voltage: float
-    gas_temperature: float
-    source: str
-    """Where the pressure came from: a channel name or "manual"."""
-    note: str = ""
-    gas: str = ""
-    """The gas fill's composition key when the mark was made."""
 
 
 @dataclass(frozen=True)
@@ -79,6 +64,8 @@ class View:
     """Why the flow meters do not set the gas fill now (None: they do, or none are named)."""
     fill_source: str = "profile"
     """Where the gas fill in use came from: "profile", "typed" or "flows"."""
+    proposed: tuple[Pending, ...] = ()
+    """Strikes the instruments showed since the previous view, waiting to be kept or dropped."""
 
 
 class Session:
@@ -122,7 +109,9 @@ class Session:
         self.fill_note: str | None = None
         """Why the flow meters cannot set the fill now (None: they do, or the fill is typed)."""
         self.fill_source = "profile"
-        self.strikes: list[StrikeMark] = []
+        watched = {c.quantity for c in channels} & {"current", "self_bias", "reflected_power"}
+        self.marks = StrikeMarks(self, StrikeDetector(profile.detection) if watched and not manual else None)
+        """Strike marks, and the ones the instruments propose (a current, self-bias or reflected power)."""
         self.limits = ReadingLimits()
         self._flags: dict[str, Flag] = {}
         self._summary: tuple | None = None
@@ -137,6 +126,7 @@ class Session:
         those limits or comes back (None otherwise)."""
         r, note = self.limits.check(r)
         self.latest.update(r)
+        self.marks.watch(r)
         if self.logbook is not None:
             value, approx = self.corrected(r)
             self.logbook.write(
@@ -169,13 +159,17 @@ class Session:
             for port, st in stats.items():
                 self.logbook.write("event", port=port, event="counts", message="", **st.counts())
 
-    def set_value(self, name: str, text: str) -> str | None:
-        """Set ``name`` from typed ``text``; on bad input keep the old value and return why."""
+    def set_value(self, name: str, text: str, convention: str = "peak") -> str | None:
+        """Set ``name`` from typed ``text``; on bad input keep the old value and return why. An
+        alternating supply's voltage is typed as ``convention`` (peak, rms or pp) and kept as its
+        amplitude."""
         try:
             v = parse_within(text, name)
         except units.QuantityError as e:
             self._entry(name, text, False, str(e))
             return str(e)
+        if name == "voltage" and self.alternating:
+            v = units.to_amplitude(v, convention)
         self.values[name] = v
         if name == "pressure":
             self.use_gauge = False  # a typed pressure overrides the gauge until asked back
@@ -306,6 +300,7 @@ class Session:
         """The forecast now, or why it is withdrawn; logs changes."""
         now = self.clock() if now is None else now
         point, p = self.point(now)
+        proposed = tuple(self.marks.settle())
         f = None
         if point is not None:
             from ..model.forecast import forecast
@@ -313,7 +308,7 @@ class Session:
             f = forecast(point, self.bench)
         withdrawn = p.withdrawn
         changes = self._log_changes(now, f, withdrawn)
-        return View(p, f, withdrawn, changes, self.fill_note, self.fill_source)
+        return View(p, f, withdrawn, changes, self.fill_note, self.fill_source, proposed)
 
     def _log_changes(self, now: float, f: Forecast | None, withdrawn: str | None) -> tuple[tuple[str, Flag], ...]:
         flags = {} if f is None else {x.code: x for x in f.flags}
@@ -350,41 +345,16 @@ class Session:
             self.logbook.write("forecast", **rec)
         return tuple(changes)
 
+    @property
+    def alternating(self) -> bool:
+        """The bench's supply is AC or RF (voltages are amplitudes)."""
+        return self.bench.supply is not None and self.bench.supply.mode == "ac"
+
     def mark_strike(self, note: str = "") -> StrikeMark | str:
         """Record that the operator saw ignition now; returns the mark or why it cannot."""
-        now = self.clock()
-        point, p = self.point(now)
-        if point is None:
-            return f"cannot mark a strike: {p.withdrawn}"
-        voltage = point.voltage
-        vr = next((c for c in self.channels.values() if c.quantity == "voltage"), None)
-        if vr is not None:
-            r = self.latest.get(vr.name, now)
-            if r is not None and r.usable and r.value > 0:
-                voltage = r.value  # the supply's read-back is what was across the gap
-        if voltage is None:
-            return "cannot mark a strike: no voltage set (type one, e.g. 600V)"
-        mark = StrikeMark(
-            self.wall(),
-            point.pressure,
-            point.gap,
-            voltage,
-            point.gas_temperature,
-            p.source,
-            note,
-            self.bench.composition,
-        )
-        self.strikes.append(mark)
-        if self.logbook is not None:
-            self.logbook.write(
-                "strike",
-                pressure_Pa=mark.pressure,
-                gap_m=mark.gap,
-                voltage_V=mark.voltage,
-                gas_temperature_K=mark.gas_temperature,
-                pressure_source=mark.source,
-                gas=self.bench.composition,
-                cathode=self.bench.cathode.key,
-                note=note,
-            )
-        return mark
+        return self.marks.mark(note)
+
+    @property
+    def strikes(self) -> list[StrikeMark]:
+        """The session's marks, typed and kept."""
+        return self.marks.kept

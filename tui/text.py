@@ -72,23 +72,23 @@ def forecast_text(f: Forecast, system: str = "SI") -> str:
             {"left": "left of the minimum", "right": "right of the minimum", "none": "left of the asymptote"}[f.branch],
         ),
         (
-            "Paschen minimum",
+            "curve minimum" if f.alternating is not None else "Paschen minimum",
             f"{format_value(f.minimum_voltage, 'voltage', 'V')} at {pd_text(f.minimum_pd, system)}"
             f" (at this gap: {format_value(f.minimum_pressure, 'pressure', pu)})",
         ),
         ("no breakdown below", format_value(f.no_breakdown_pressure, "pressure", pu) + " at this gap"),
     ]
+    rows += alternating_rows(f, system)
     if f.voltage is not None:
+        ac = f.alternating is not None
         rows += [
-            ("voltage", format_value(f.voltage, "voltage", "V")),
+            ("voltage", format_value(f.voltage, "voltage", "V") + (" " + conventions(f.voltage) if ac else "")),
             ("strike margin", "none" if f.margin is None else f"{f.margin:+.0f} V"),
-            ("E/N", f"{_g(f.E_over_N_Td)} Td"),
-            (
-                "alpha d",
-                f"{_g(f.alpha_d)}   avalanche gain exp(alpha d) "
-                + (_g(f.gain) if f.gain is not None and f.gain < 1e300 else "> 1e300"),
-            ),
+            ("E_eff/N" if ac else "E/N", f"{_g(f.E_over_N_Td)} Td"),
         ]
+        if f.alpha_d is not None:
+            gain = _g(f.gain) if f.gain is not None and f.gain < 1e300 else "> 1e300"
+            rows.append(("alpha d", f"{_g(f.alpha_d)}   avalanche gain exp(alpha d) {gain}"))
     if f.effective_pressure is not None:
         rows.append(
             (
@@ -134,6 +134,7 @@ def forecast_text(f: Forecast, system: str = "SI") -> str:
                 f"Lambda {_g(a.diffusion_length * 1e3)} mm){left}",
             )
         )
+    rows += [(f"not applicable: {what}", why) for what, why in f.not_applicable]
     width = max(len(k) for k, _ in rows)
     lines = [f"{k:<{width}}  {v}" for k, v in rows]
     lines.append("")
@@ -160,6 +161,79 @@ def fill_label(bench) -> str:
     if bench.mixture is None:
         return bench.gas.symbol
     return "+".join(f"{c.gas.symbol} {100 * c.fraction:.2g}%" for c in bench.mixture.components)
+
+
+def supply_label(supply, convention: str = "peak") -> str:
+    """The supply in a few characters: "DC", "pulsed 10 kHz", "AC 13.56 MHz rms", "no supply" (the
+    convention is how the screen shows an AC supply's voltages).
+
+    >>> from strikeline.model.bench import Supply
+    >>> supply_label(Supply(400.0, mode="ac", frequency=13.56e6), "rms"), supply_label(None)
+    ('AC 13.56 MHz rms', 'no supply')
+    """
+    if supply is None:
+        return "no supply"
+    if supply.mode == "dc":
+        return "DC"
+    if supply.mode == "pulsed":
+        return f"pulsed {frequency_text(supply.frequency)}"
+    return f"AC {frequency_text(supply.frequency)} {CONVENTION_TAG[convention]}"
+
+
+CONVENTION_TAG = {"peak": "pk", "rms": "rms", "pp": "pp"}
+"""How a voltage's convention is marked beside it."""
+
+
+def conventions(amplitude: float) -> str:
+    """An alternating voltage's amplitude, quoted all three ways.
+
+    >>> conventions(400.0)
+    'peak (283 V rms, 800 V pp)'
+    """
+    from ..model.units import from_amplitude
+
+    return f"peak ({from_amplitude(amplitude, 'rms'):.0f} V rms, {from_amplitude(amplitude, 'pp'):.0f} V pp)"
+
+
+def frequency_text(f: float) -> str:
+    """A frequency in the unit that reads best.
+
+    >>> frequency_text(13.56e6), frequency_text(40e3), frequency_text(50.0)
+    ('13.56 MHz', '40 kHz', '50 Hz')
+    """
+    for unit, scale in (("MHz", 1e6), ("kHz", 1e3)):
+        if f >= scale:
+            return f"{f / scale:.4g} {unit}"
+    return f"{f:.4g} Hz"
+
+
+def alternating_rows(f: Forecast, system: str) -> list[tuple[str, str]]:
+    """What an alternating supply adds: regime, both branches, the turning point, the swings."""
+    a = f.alternating
+    if a is None:
+        return []
+    pu = UNIT_SYSTEMS[system][0]
+    rows = [("alternating", f"{frequency_text(a.frequency)}, {a.regime}; voltages are amplitudes (peak)")]
+    if f.breakdown_voltage is not None:
+        rows.append(
+            ("  breakdown", conventions(f.breakdown_voltage).replace("peak", f"{f.breakdown_voltage:.0f} V peak"))
+        )
+    if a.upper_voltage is not None:
+        rows.append(("  upper branch", f"{a.upper_voltage:.0f} V peak: above it electrons are swept out"))
+    if a.turning_pressure is not None:
+        rows.append(
+            (
+                "  turning point",
+                f"{format_value(a.turning_pressure, 'pressure', pu)} at this gap ({a.turning_voltage:.0f} V): "
+                "no volume breakdown below",
+            )
+        )
+    dc = "none" if a.dc_voltage is None else f"{a.dc_voltage:.0f} V"
+    ions = "" if a.ion_swing_ratio is None else f"; ions' swing {a.ion_swing_ratio:.2g} x the gap"
+    rows.append(("  DC at this pd", f"{dc}{ions}"))
+    if a.electron_swing is not None:
+        rows.append(("  electron swing", f"{a.electron_swing * 1e3:.3g} mm amplitude at the applied voltage"))
+    return rows
 
 
 def mixture_rows(f: Forecast, pu: str) -> list[tuple[str, str]]:
@@ -199,7 +273,16 @@ def reactive_rows(f: Forecast) -> list[tuple[str, str]]:
     return rows
 
 
-_READING_UNITS = {"pressure": "Pa", "voltage": "V", "current": "mA", "flow": "sccm"}
+_READING_UNITS = {
+    "pressure": "Pa",
+    "voltage": "V",
+    "current": "mA",
+    "flow": "sccm",
+    "forward_power": "W",
+    "reflected_power": "W",
+    "self_bias": "V",
+    "rf_voltage": "V",
+}
 
 
 def state_word(value: float | None, labels: dict[int, str]) -> str:
@@ -250,7 +333,9 @@ def reading_text(r, corr=None, labels: dict[int, str] | None = None) -> str:
         shown = state_word(value, labels or {}) if value is not None else str(r.status).upper()
         return f"{iso_utc(r.t_wall)[11:23]}  {r.channel:<16} {shown:>14}  {r.status}"
     unit = _READING_UNITS[r.quantity]
-    kind = r.quantity
+    kind = {"forward_power": "power", "reflected_power": "power", "self_bias": "voltage", "rf_voltage": "voltage"}.get(
+        r.quantity, r.quantity
+    )
     shown = format_value(value, kind, unit) if value is not None else str(r.status).upper()
     extra = ""
     if corr is not None and r.value is not None:
@@ -275,10 +360,17 @@ def log_summary_text(s: dict[str, Any]) -> str:
         lines.append(f"  {g['channel']:<18} {iso_utc(g['from'])[11:23]} to {end}: {g['why']}")
     for e in s["faults"]:
         lines.append(f"  {e.get('port', '?'):<18} {e['t'][11:23]} {e.get('event')}: {e.get('message', '')}")
-    lines.append(f"strike marks ({len(s['strikes'])})")
+    detected = sum(1 for m in s["strikes"] if m.get("made_by") == "detected")
+    proposed = sum(1 for e in s["proposed_strikes"] if e.get("event") == "strike proposed")
+    dropped = sum(1 for e in s["proposed_strikes"] if e.get("event") == "strike dropped")
+    lines.append(
+        f"strike marks ({len(s['strikes'])}: {detected} seen by the instruments and kept; "
+        f"{proposed} proposed, {dropped} dropped)"
+    )
     for m in s["strikes"]:
+        by = " (instruments)" if m.get("made_by") == "detected" else ""
         lines.append(
-            f"  {m['t'][11:23]}  {m['pressure_Pa']:.4g} Pa, gap {m['gap_m'] * 1e3:.4g} mm, {m['voltage_V']:.0f} V"
+            f"  {m['t'][11:23]}  {m['pressure_Pa']:.4g} Pa, gap {m['gap_m'] * 1e3:.4g} mm, {m['voltage_V']:.0f} V{by}"
         )
     lines.append(f"gas fill ({len(s['fills'])})")
     for fl in s["fills"]:

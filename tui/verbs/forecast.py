@@ -8,7 +8,7 @@ from dataclasses import replace
 
 from ...model import units
 from ...model.limits import check, parse_within
-from ...model.units import QuantityError
+from ...model.units import QuantityError, to_amplitude
 from ..outputs import print_json
 from .parser import UsageError, add_gas, add_verb, count, number, quantity
 
@@ -30,6 +30,13 @@ def _common_point(s: argparse.ArgumentParser) -> None:
     )
     s.add_argument(
         "--temperature", type=quantity("temperature"), metavar="T", help="gas temperature, e.g. '300 K' or '20 C'"
+    )
+    s.add_argument(
+        "--frequency",
+        type=quantity("frequency"),
+        metavar="F",
+        help="frequency of an alternating (AC or RF) voltage, e.g. '13.56 MHz' or '40 kHz' (default: the bench "
+        "supply's if it is AC, else DC); voltages are then amplitudes (peak) across the electrodes",
     )
 
 
@@ -70,6 +77,12 @@ def add_strike(sub) -> None:
         "it gives the target mode",
     )
     s.add_argument("--film", help="film a reactive process grows on the target: " + ", ".join(_film_names()))
+    s.add_argument(
+        "--voltage-is",
+        choices=("peak", "rms", "pp"),
+        help="how --voltage of an alternating supply is quoted: peak (amplitude, the default), rms or pp "
+        "(peak-to-peak); the text output quotes all three",
+    )
     s.add_argument("--units", choices=UNIT_CHOICES, default="SI", help="units of the text output")
     s.add_argument("--json", action="store_true", help="print the forecast as JSON (SI units)")
     s.set_defaults(run=cmd_strike)
@@ -162,7 +175,16 @@ def cmd_strike(args: argparse.Namespace) -> int:
     if pressure is None:
         raise UsageError("strikeline strike: --pressure needed, e.g. --pressure '0.5 Pa'")
     gap = args.gap if args.gap is not None else bench.gap
-    point = OperatingPoint(pressure, gap, args.voltage, bench.gas_temperature, flows, args.current)
+    voltage = args.voltage
+    if args.voltage_is is not None:
+        ac = args.frequency is not None or (bench.supply is not None and bench.supply.mode == "ac")
+        if not ac or voltage is None:
+            raise UsageError(
+                "strikeline strike: --voltage-is says how the --voltage of an alternating supply is quoted; "
+                "give --voltage and --frequency (or an AC bench)"
+            )
+        voltage = to_amplitude(voltage, args.voltage_is)
+    point = OperatingPoint(pressure, gap, voltage, bench.gas_temperature, flows, args.current, args.frequency)
     f = forecast(point, bench)
     if args.json:
         print_json(f.to_json())
@@ -174,17 +196,20 @@ def cmd_strike(args: argparse.Namespace) -> int:
 def cmd_curve(args: argparse.Namespace) -> int:
     import numpy as np
 
-    from ...model.breakdown import breakdown_law
+    from ...model.breakdown import alternating_law, breakdown_law
     from ...model.forecast import with_bench_curve
 
-    given = bench_for(args, need_gap=False)
+    given = bench_for(args, need_gap=args.frequency is not None)
     bench, fitted = with_bench_curve(given)  # a fitted curve stands for the fill it was fitted in
-    law = breakdown_law(bench)
+    s = bench.supply
+    freq = args.frequency if args.frequency is not None else s.frequency if s is not None and s.mode == "ac" else None
+    gap = args.gap  # a pd sweep unless --gap is given, even with a bench...
+    if gap is None and (bench.magnetic_field is not None or freq is not None):
+        gap = bench.gap  # ...but a magnetised cathode's effective pressure needs p itself, and an AC curve w d
+    magnetised = bench.magnetic_field is not None and freq is None
+    law = breakdown_law(bench) if freq is None else alternating_law(bench, freq, gap)
     scale = law.reference_temperature / bench.gas_temperature
     pd_min, _ = law.minimum()
-    gap = args.gap  # a pd sweep unless --gap is given, even with a bench...
-    if gap is None and bench.magnetic_field is not None:
-        gap = bench.gap  # ...but a magnetised cathode's effective pressure needs p itself
     what = "pressure" if gap is not None else "pd"
 
     def read(text: str | None, default: float, option: str) -> float:
@@ -214,11 +239,16 @@ def cmd_curve(args: argparse.Namespace) -> int:
     xs = np.geomspace(lo, hi, args.points)
     pd = xs * gap if gap is not None else xs
     rpd = pd * scale
-    if bench.magnetic_field is not None:
+    if magnetised:
         p_eff, _hall = effective_pressure(xs, bench.gas_temperature, bench)
         rpd = p_eff * gap * scale
     vb, w = law.voltage(rpd)
     br = law.branch(rpd)
+    if freq is None:
+        regimes, upper = np.full(np.shape(vb), "dc"), np.full(np.shape(vb), np.nan)
+    else:
+        regimes, upper = law.regimes(rpd), law.upper(rpd)
+    fixed_name = "alternating" if freq is not None else "mixture" if law.mixture is not None else None
     out = sys.stdout
     cols = (["pressure_Pa", "gap_m"] if what == "pressure" else []) + [
         "pd_Pa_m",
@@ -228,8 +258,10 @@ def cmd_curve(args: argparse.Namespace) -> int:
         "law",
         "constants",
         "gas",
+        "regime",
+        "upper_V",
     ]
-    source = "bench-curve" if fitted is not None else ("mixed" if law.mixture is not None else "textbook")
+    source = "bench-curve" if fitted is not None else ("mixed" if given.mixture is not None else "textbook")
     gas = f'"{given.composition}"' if "," in given.composition else given.composition  # CSV quoting
     out.write(",".join(cols) + "\n")
     for i in range(len(xs)):
@@ -239,9 +271,11 @@ def cmd_curve(args: argparse.Namespace) -> int:
             f"{rpd[i]:.10g}",
             v,
             str(br[i]),
-            law_name(w[i]) if law.mixture is None else "mixture",
+            fixed_name or law_name(w[i]),
             source,
             gas,
+            str(regimes[i]),
+            "" if not np.isfinite(upper[i]) else f"{upper[i]:.10g}",
         ]
         out.write(",".join(row) + "\n")
     return 0

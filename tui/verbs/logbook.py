@@ -51,7 +51,7 @@ def cmd_fit(args: argparse.Namespace) -> int:
     from ...model.composition import same_composition
     from ...profiles.loader import save_curve
     from ...profiles.strikes import read_strike_csv
-    from ..calibrate import calibrate, calibration_json, calibration_text, parse_free
+    from ..calibrate import calibrate, calibration_json, calibration_text, dc_like, parse_free
 
     bench = bench_for(args, need_gap=False)
     if args.save is not None:
@@ -72,6 +72,10 @@ def cmd_fit(args: argparse.Namespace) -> int:
         raise UsageError(f"strikeline fit: {args.points!r}: no usable rows ({'; '.join(problems) or 'empty'})")
     pts = [(p.pressure, p.gap, p.voltage, p.temperature) for p in points]
     labels = [f"line {p.line}" for p in points]
+    pts, labels, left_out = dc_like(bench, pts, labels)  # an AC bench's RF strikes are not Paschen's
+    problems += left_out
+    if not pts:
+        raise UsageError(f"strikeline fit: {args.points!r}: no strike Paschen's law describes ({problems[0]}...)")
     try:
         cal = calibrate(bench, pts, labels, free)
     except FitRefused as e:
