@@ -50,7 +50,11 @@ def add_strike(sub) -> None:
         "each gas's weighted by its share of the ionisation, and the breakdown band is widened by 10 %; Penning "
         "pairs are flagged, not modelled. Given as flows (--gas argon:40sccm,oxygen:8sccm) with --pumping-speed, "
         "the fill also gives the expected partial pressures (steady state, every gas pumped alike) and the target "
-        "mode; --film and --current give the charging time of the target's film.",
+        "mode; --film and --current give the charging time of the target's film. With --frequency (or an AC "
+        "bench) the voltage is an alternating amplitude: RF breakdown is volume breakdown (ionisation at the "
+        "effective field against diffusion over a gap the electrons' swing shrinks, so the curve turns back and "
+        "has two branches at low pressure, +/-50 % for the swarm data), and at low frequency each half cycle "
+        "breaks down as DC; the regime and both branches are reported.",
     )
     _common_point(s)
     s.add_argument(
