@@ -314,6 +314,8 @@ class BenchCurve:
     """Student-t quantile of the stated prediction band (95 %)."""
     free: tuple[str, ...] = ("A", "B")
     """Which of A, B, gamma were fitted."""
+    marks: tuple[tuple[float, float], ...] = ()
+    """The strikes it was fitted to: (reduced pd in Pa m, V)."""
 
 
 @dataclass(frozen=True)

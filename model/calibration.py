@@ -200,6 +200,7 @@ def _fit(pd, voltage, A, B, gamma, free, gas, cathode, fitted_on, level) -> FitR
         residual_scale=scale,
         t_quantile=t,
         free=free,
+        marks=tuple((float(x), float(y)) for x, y in zip(pd, v, strict=True)),
     )
     return FitResult(curve, tuple(float(x) for x in resid_v), tuple(warnings), free, float(res.cost))
 

@@ -26,8 +26,6 @@ __all__ = [
     "validity_flags",
 ]
 
-PER_CM_TORR = 1.0 / (_c.centi * _c.torr)
-"""1 V/(cm Torr) in V/(Pa m)."""
 TORR_CM = _c.torr * _c.centi
 """1 Torr cm in Pa m."""
 
@@ -106,7 +104,7 @@ def mixture_flags(
                 Flag(
                     "outside_fitted_range",
                     "watch",
-                    f"E/p at breakdown {e_over_p / PER_CM_TORR:.0f} V/(cm Torr) is outside the range fitted for "
+                    f"E/p at breakdown {e_over_p:.3g} V/(Pa m) is outside the range fitted for "
                     f"{', '.join(g.key for g in outside)}: breakdown voltage extrapolated",
                     "; ".join(g.constants.source for g in outside),
                 )
@@ -125,7 +123,7 @@ def no_breakdown_flag(rpd: float, pd0: float, raise_to: float) -> Flag:
     return Flag(
         "no_breakdown",
         "watch",
-        f"pd {rpd / TORR_CM:.3g} Torr cm is at or left of the asymptote {pd0 / TORR_CM:.3g} Torr cm: "
+        f"pd {rpd:.3g} Pa m is at or left of the asymptote {pd0:.3g} Pa m: "
         f"no voltage breaks this gap down; raise the pressure above {raise_to:.3g} Pa",
         "Paschen's law, Townsend criterion",
     )
@@ -155,8 +153,8 @@ def validity_flags(
             Flag(
                 "outside_fitted_range",
                 "watch",
-                f"E/p at breakdown {e_over_p / PER_CM_TORR:.0f} V/(cm Torr) is outside the "
-                f"{c.E_over_p_low / PER_CM_TORR:.0f}-{c.E_over_p_high / PER_CM_TORR:.0f} V/(cm Torr) "
+                f"E/p at breakdown {e_over_p:.3g} V/(Pa m) is outside the "
+                f"{c.E_over_p_low:.3g} to {c.E_over_p_high:.3g} V/(Pa m) "
                 "the A, B pair was fitted over: breakdown voltage extrapolated",
                 c.source,
             )
@@ -202,7 +200,7 @@ def curve_flags(cv: BenchCurve, rpd: float) -> list[Flag]:
             Flag(
                 "outside_fitted_range",
                 "watch",
-                f"pd {rpd:.3g} Pa m is outside the {cv.pd_low:.3g}-{cv.pd_high:.3g} Pa m the bench curve was fitted "
+                f"pd {rpd:.3g} Pa m is outside the {cv.pd_low:.3g} to {cv.pd_high:.3g} Pa m the bench curve was fitted "
                 "over: extrapolated; record strikes here",
                 _CURVE_METHOD,
             )
@@ -284,7 +282,7 @@ def streamer_flags(V: float, vb: float | None, ad: float, rpd: float, weight: fl
             Flag(
                 "spark",
                 "danger",
-                f"pd {rpd / TORR_CM:.0f} Torr cm is in the streamer regime: breakdown "
+                f"pd {rpd:.3g} Pa m is in the streamer regime: breakdown "
                 "here is a spark channel that a low-impedance supply turns into an arc, not a glow",
                 method + "; streamer regime above ~200 Torr cm (from memory)",
             )

@@ -35,6 +35,7 @@ _CURVE_FIELDS = (
     "rms_residual_V",
     "pd_low_Pa_m",
     "pd_high_Pa_m",
+    "marks",
 )
 
 
@@ -88,7 +89,22 @@ def curve_section(t: Table | None, composition: str, cathode: Cathode) -> BenchC
         residual_scale=t.number("residual_scale", 0, 10),
         t_quantile=t.number("t_quantile", 0.5, 1000),
         free=tuple(free),
+        marks=_marks(t),
     )
+
+
+def _marks(t: Table) -> tuple[tuple[float, float], ...]:
+    """The fitted strikes, [[reduced pd Pa m, V], ...] (optional: curves saved before kept none)."""
+    raw = t.data.get("marks", [])
+    ok = isinstance(raw, list) and all(
+        isinstance(m, list)
+        and len(m) == 2
+        and all(isinstance(x, int | float) and not isinstance(x, bool) and math.isfinite(x) and x > 0 for x in m)
+        for m in raw
+    )
+    if not ok:
+        raise t.fail("marks", "is not a list of [reduced pd in Pa m, V] pairs of numbers above zero")
+    return tuple((float(a), float(b)) for a, b in raw)
 
 
 def curve_toml(c: BenchCurve) -> str:
@@ -103,6 +119,7 @@ def curve_toml(c: BenchCurve) -> str:
         f"A_sigma = {c.A_sigma!r}\nB_sigma = {c.B_sigma!r}\ngamma_sigma = {c.gamma_sigma!r}\n"
         f"covariance_ln = [{cov}]\nresidual_scale = {c.residual_scale!r}\nt_quantile = {c.t_quantile!r}\n"
         f"rms_residual_V = {c.rms_residual!r}\npd_low_Pa_m = {c.pd_low!r}\npd_high_Pa_m = {c.pd_high!r}\n"
+        f"marks = [{', '.join(f'[{a!r}, {b!r}]' for a, b in c.marks)}]\n"
     )
 
 

@@ -84,7 +84,7 @@ CASES = [
         _bench(),
         _point(5.0),
         "no_breakdown",
-        rf"pd {N} Torr cm is at or left of the asymptote {N} Torr cm: no voltage breaks this gap down; "
+        rf"pd {N} Pa m is at or left of the asymptote {N} Pa m: no voltage breaks this gap down; "
         rf"raise the pressure above {N} Pa",
     ),
     (
@@ -92,7 +92,7 @@ CASES = [
         _bench(),
         _point(1e5, d=0.01),
         "outside_fitted_range",
-        rf"E/p at breakdown {N} V/\(cm Torr\) is outside the {N}-{N} V/\(cm Torr\) the A, B pair was fitted over: "
+        rf"E/p at breakdown {N} V/\(Pa m\) is outside the {N} to {N} V/\(Pa m\) the A, B pair was fitted over: "
         r"breakdown voltage extrapolated",
     ),
     (
@@ -128,7 +128,8 @@ CASES = [
         _bench(curve=_curve(1.0, 2.0)),
         _point(200.0),
         "outside_fitted_range",
-        rf"pd {N} Pa m is outside the {N}-{N} Pa m the bench curve was fitted over: extrapolated; record strikes here",
+        rf"pd {N} Pa m is outside the {N} to {N} Pa m the bench curve was fitted over: extrapolated; "
+        r"record strikes here",
     ),
     (
         "strikes",
@@ -166,7 +167,7 @@ CASES = [
         _bench(gas=find_gas("air"), gap=0.01),
         _point(constants.atm, 35e3, d=0.01),
         "spark",
-        rf"(pd {N} Torr cm is in the streamer regime: breakdown here is a spark channel that a low-impedance supply "
+        rf"(pd {N} Pa m is in the streamer regime: breakdown here is a spark channel that a low-impedance supply "
         rf"turns into an arc, not a glow|alpha d = {N} at {N} V reaches the Raether-Meek threshold {N} \(gain ~1e8\): "
         r"a streamer forms and the gap sparks rather than glows)",
     ),
@@ -337,7 +338,7 @@ CASES = [
         _mixed("argon:80,oxygen:20"),
         _point(50.0, d=0.01),
         "outside_fitted_range",
-        rf"E/p at breakdown {N} V/\(cm Torr\) is outside the range fitted for argon, oxygen: breakdown voltage "
+        rf"E/p at breakdown {N} V/\(Pa m\) is outside the range fitted for argon, oxygen: breakdown voltage "
         r"extrapolated",
     ),
     (

@@ -357,3 +357,56 @@ async def test_an_rf_bench_names_its_supply_and_a_seen_strike_is_kept_with_one_k
         await pilot.press("o")
         await pilot.pause()
         assert "AC 13.56 MHz rms" in text_of(app, "title") and " V rms" in text_of(app, "readouts")
+
+
+async def test_the_fits_refusal_is_read_whole_at_80x24():
+    from screen_text import visible
+    from strikeline.model.calibration import FitRefused
+    from strikeline.tui.calibrate import calibrate
+
+    app = make_app(load_bench("demo"), manual=True, log=False, show_caution=False)
+    async with app.run_test(size=(80, 24)) as pilot:
+        app.session.mark_strike()
+        await pilot.press("k")
+        await pilot.pause()
+        m = app.session.strikes[0]
+        with pytest.raises(FitRefused) as e:
+            calibrate(app.session.bench, [(m.pressure, m.gap, m.voltage, m.gas_temperature)], ["mark 1"])
+        assert visible(app, f"refused: {e.value}", frame="┃") and visible(app, "Esc discard", frame="┃")
+
+
+@pytest.mark.parametrize("bench", ["demo", "demo-rf", "demo-reactive"])
+async def test_every_flag_sentence_is_read_whole_at_80x24(bench):
+    from screen_text import visible
+
+    app = make_app(load_bench(bench), manual=True, log=False, show_caution=False)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.pause()
+        flags = app.view_.forecast.flags
+        assert len(flags) >= 3
+        await pilot.press("d")
+        await pilot.pause()
+        for f in flags:  # the flags screen scrolls: bring each flag into view and read it whole
+            widget = next(w for w in app.screen.query(".flag-reason") if str(w.content) == f.reason)
+            app.screen.query_one("#help-box").scroll_to_widget(widget, animate=False)
+            await pilot.pause()
+            assert visible(app, f.reason, frame="┃"), f.code
+
+
+async def test_a_unit_switch_changes_every_pressure_in_the_flags():
+    import re
+
+    from screen_text import screen_rows
+
+    app = make_app(load_bench("demo"), manual=True, log=False, show_caution=False)
+    async with app.run_test(size=(80, 24)) as pilot:
+        app.session.set_value("pressure", "3 Pa")  # left of the asymptote: a pressure and pds in the flag
+        app.refresh_view()
+        await pilot.pause()
+        assert any(re.search(r"\d Pa\b", row) for row in screen_rows(app))
+        await pilot.press("u")  # mbar
+        await pilot.pause()
+        await pilot.press("d")
+        await pilot.pause()
+        rows = " ".join(screen_rows(app))
+        assert "mbar mm" in rows and "mbar" in rows and not re.search(r"\d Pa\b|Pa m\b|Torr", rows)

@@ -138,13 +138,13 @@ def calibration_summary(cal: Calibration) -> str:
         ("gamma", cv.gamma, cv.gamma_sigma, t["gamma"]),
     ):
         if name in cal.result.free:
-            parts.append(f"{name} {value:.4g} +/-{sigma:.2g} ({book:.4g})")
+            parts.append(f"{name} {value:.4g} +/-{sigma:.2g} (textbook {book:.4g})")
         else:
             parts.append(f"{name} {value:.3g} fixed")
     book = "n/a" if cal.textbook_rms is None else f"{cal.textbook_rms:.1f} V"
     lines = [
         f"bench curve for {cv.gas} on {cv.cathode}: {cv.n_points} strikes, fitted {', '.join(cal.result.free)}",
-        "  " + "   ".join(parts) + "   (textbook)",
+        "  " + "   ".join(parts),
         f"  rms residual {cv.rms_residual:.1f} V; textbook on the same strikes {book}; band 95 %",
     ]
     lines += [f"  warning: {w}" for w in cal.result.warnings[:2]]

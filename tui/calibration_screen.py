@@ -36,14 +36,14 @@ class CalibrationScreen(ModalScreen[None]):
         self.main = main
         self.free = "A,B"
         self.cal: Calibration | None = None
+        self.marks: tuple[tuple[float, float], ...] = ()
+        """The marks as (reduced pd, V), for the picture when the fit is refused."""
 
     def compose(self) -> ComposeResult:
         with Vertical(id="calib-box"):
             yield Static(id="calib-text")
             yield Static(id="calib-plot")
-            yield Static(
-                "1 fit A,B  2 fit B,gamma  3 fit gamma  a accept  w save to bench  Esc discard", id="calib-hint"
-            )
+            yield Static("fit 1 A,B  2 B,gamma  3 gamma  |  a accept  w save to bench  Esc discard", id="calib-hint")
 
     def on_mount(self) -> None:
         self.refit()
@@ -69,19 +69,21 @@ class CalibrationScreen(ModalScreen[None]):
             more = f" ({other} more in another gas fill)" if other else ""
             head = f"{len(marks)} strike marks in {fill} this session{more} (s marks one)."
             text.update(Text(f"{head}\nfit {self.free}: refused: {e}"))
+            scale = s.bench.gas.constants.reference_temperature
+            self.marks = tuple((p * d * scale / t, v) for p, d, v, t in pts)
+            self.draw()
             return
-        text.update(Text(calibration_summary(self.cal), no_wrap=True, overflow="ellipsis"))
+        text.update(Text(calibration_summary(self.cal)))
         self.draw()
 
     def draw(self) -> None:
         from .curve_panel import calibration_curve
         from .plot import curve_picture
 
-        if self.cal is None:
-            return
         plot = self.query_one("#calib-plot", Static)
         w, h = plot.size.width or 70, plot.size.height or 10
-        inputs = calibration_curve(self.cal, self.main.session.bench, w, h, colour=not self.main.no_color)
+        bench = self.main.session.bench
+        inputs = calibration_curve(self.cal, bench, w, h, colour=not self.main.no_color, marks=self.marks)
         plot.update(Text.from_ansi(curve_picture(inputs)))
 
     def action_free(self, free: str) -> None:

@@ -31,9 +31,11 @@ def live_curve(
     width: int,
     height: int,
     colour: bool,
+    marks: tuple[tuple[float, float], ...] = (),
 ) -> tuple[tuple, CurveInputs] | None:
     """(key, picture inputs) for the live panel of ``width`` x ``height`` cells, or None when the
-    panel is too small to draw. ``values`` are the session's gap, voltage and gas temperature.
+    panel is too small to draw. ``values`` are the session's gap, voltage and gas temperature;
+    ``marks`` this session's strikes as (pd in Pa m, V); the bench curve's own are drawn apart.
 
     The key holds what the picture depends on: gas, cathode, gamma, supply voltage, units, size,
     the operating point rounded to a character cell, gas temperature and the fitted curve.
@@ -81,7 +83,7 @@ def live_curve(
         )
     )
     key = (bench.composition, bench.cathode.key, gamma, values["voltage"], units, width, height, bucket, T, ratio)
-    key += (freq, values["gap"] if freq is not None else None)
+    key += (freq, values["gap"] if freq is not None else None, marks)
     key += (bench.curve,)
     inputs = CurveInputs(
         pd=tuple(rpd / k * to_x),
@@ -91,6 +93,8 @@ def live_curve(
         supply=values["voltage"],
         fitted=None if freq is not None else _fitted(bench, rpd, k, to_x),
         upper=upper,
+        marks=tuple((pd * to_x, v) for pd, v in marks),
+        saved=_saved(bench, k, to_x),
         pd_unit=" ".join(UNIT_SYSTEMS[units][2]),
         width=width,
         height=height,
@@ -111,28 +115,51 @@ def _fitted(bench: Bench, rpd, k: float, to_x: float):
     return tuple(rpd / k * to_x), tuple(v), tuple(lo), tuple(hi)
 
 
-def calibration_curve(cal: Calibration, bench: Bench, width: int, height: int, colour: bool) -> CurveInputs:
-    """The calibration screen's picture: the textbook curve, the fit with its band, and the marks,
-    over reduced pd from a third of the lowest mark to three times the highest."""
+def _saved(bench: Bench, k: float, to_x: float) -> tuple[tuple[float, float], ...]:
+    """The strikes the bench's own curve was fitted to, where that curve holds for this fill."""
+    from ..model.forecast import with_bench_curve
+
+    _bench, cv = with_bench_curve(bench)
+    return () if cv is None else tuple((rpd / k * to_x, v) for rpd, v in cv.marks)
+
+
+def calibration_curve(
+    cal: Calibration | None,
+    bench: Bench,
+    width: int,
+    height: int,
+    colour: bool,
+    marks: tuple[tuple[float, float], ...] = (),
+) -> CurveInputs:
+    """The calibration screen's picture: the textbook curve, the fit with its band (when there is
+    one) and the marks (the fit's, else ``marks`` as (reduced pd, V)), over reduced pd from a third of
+    the lowest mark to three times the highest (two decades either side of the minimum without any)."""
     import numpy as np
 
     from ..model.breakdown import breakdown_law
     from ..model.calibration import prediction_band
 
-    law = breakdown_law(replace(bench, curve=None))
+    law = breakdown_law(replace(bench, curve=None, supply=None))  # Paschen's law: the fit is a DC fit
     pd_min, v_min = law.minimum()
-    lo, hi = min(cal.pd) / 3, max(cal.pd) * 3
+    points = tuple(zip(cal.pd, cal.voltage, strict=True)) if cal is not None else tuple(marks)
+    if points:
+        lo, hi = min(p for p, _ in points) / 3, max(p for p, _ in points) * 3
+    else:
+        lo, hi = pd_min / 100, pd_min * 100
     rpd = np.geomspace(lo, hi, 120)
     vb, _w = law.voltage(rpd)
-    fv, flo, fhi = prediction_band(cal.result.curve, rpd)
+    fitted = None
+    if cal is not None:
+        fv, flo, fhi = prediction_band(cal.result.curve, rpd)
+        fitted = (tuple(rpd), tuple(fv), tuple(flo), tuple(fhi))
     return CurveInputs(
         pd=tuple(rpd),
         vb=tuple(vb),
         point=None,
         minimum=(pd_min, v_min),
         supply=None,
-        fitted=(tuple(rpd), tuple(fv), tuple(flo), tuple(fhi)),
-        marks=tuple(zip(cal.pd, cal.voltage, strict=True)),
+        fitted=fitted,
+        marks=points,
         pd_unit="Pa m (reduced)",
         width=max(width, 30),
         height=max(height, 6),

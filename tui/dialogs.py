@@ -5,7 +5,7 @@ from __future__ import annotations
 from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
-from textual.containers import Vertical, VerticalScroll
+from textual.containers import Horizontal, Vertical, VerticalScroll
 from textual.screen import ModalScreen
 from textual.widgets import Static
 
@@ -39,18 +39,20 @@ class HelpScreen(ModalScreen[None]):
 
     BINDINGS = [Binding("escape,q,question_mark,enter", "dismiss", "close")]
 
-    def __init__(self, keys: list[tuple[str, str]]):
+    def __init__(self, keys: list[tuple[str, str]], example: str = "20 Pa, 30 mm, 600 V"):
         super().__init__()
         self.keys = keys
+        self.example = example
+        """Values as the operator's unit system writes them."""
 
     def compose(self) -> ComposeResult:
-        lines = Text()
-        lines.append(CAUTION + "\n\n", style="bold")
-        lines.append("keys (values take units, e.g. 20 Pa, 30 mm, 600 V)\n")
-        for k, what in self.keys:
-            lines.append(f"  {k:<11} {what}\n")
         with VerticalScroll(id="help-box"):
-            yield Static(lines)
+            yield Static(Text(CAUTION, style="bold"))
+            yield Static(f"\nkeys (values take units, e.g. {self.example})")
+            for k, what in self.keys:
+                with Horizontal(classes="help-row"):  # the text wraps beside its key
+                    yield Static(k, classes="help-key")
+                    yield Static(what, classes="help-what")
             yield Static("Escape closes.", id="caution-hint")
 
 
@@ -64,10 +66,8 @@ class FlagsScreen(ModalScreen[None]):
         self.rows = rows
 
     def compose(self) -> ComposeResult:
-        t = Text()
-        for level, code, reason in self.rows or [("ok", "none", "no flags")]:
-            t.append(f"{level:<6} {code}\n", style=LEVEL_STYLE.get(level, ""))
-            t.append(f"       {reason}\n")
-        with Vertical(id="help-box"):
-            yield Static(t)
+        with VerticalScroll(id="help-box"):
+            for level, code, reason in self.rows or [("ok", "none", "no flags")]:
+                yield Static(Text(f"{level:<6} {code}", style=LEVEL_STYLE.get(level, "")))
+                yield Static(reason, classes="flag-reason")  # wraps under its code, indented
             yield Static("Escape closes.", id="caution-hint")

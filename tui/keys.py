@@ -13,6 +13,7 @@ from textual.binding import Binding
 from .readouts import NUDGE_FIELDS, flag_lines
 from .session import StrikeMark
 from .text import UNIT_SYSTEMS
+from .unitwords import in_units
 
 if TYPE_CHECKING:
     from textual.widgets import Input
@@ -188,7 +189,7 @@ class KeyActions:
         if mark is None:
             self.note("no strike proposed to keep")
             return
-        text = f"strike kept: {mark.pressure:.4g} Pa, {mark.voltage:.0f} V ({mark.note})"
+        text = in_units(f"strike kept: {mark.pressure:.4g} Pa, {mark.voltage:.0f} V ({mark.note})", self.units)
         self.record_event(text)
         self.note(f"{text}; {len(self.session.strikes)} marks this session")
 
@@ -211,12 +212,13 @@ class KeyActions:
         from .dialogs import FlagsScreen
 
         v = self.view_
-        self.push_screen(FlagsScreen(flag_lines(None if v is None else v.forecast)))
+        self.push_screen(FlagsScreen(flag_lines(None if v is None else v.forecast, self.units)))
 
     def action_help(self) -> None:
         from .dialogs import HelpScreen
 
-        self.push_screen(HelpScreen(HELP_KEYS))
+        examples = {"SI": "20 Pa, 30 mm, 600 V", "mbar": "0.2 mbar, 30 mm, 600 V", "Torr": "150 mTorr, 3 cm, 600 V"}
+        self.push_screen(HelpScreen(HELP_KEYS, examples[self.units]))
 
     def action_calibrate(self) -> None:
         from .calibration_screen import CalibrationScreen

@@ -10,10 +10,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-__all__ = ["LEGEND", "CurveInputs", "curve_picture"]
-
-LEGEND = "•V_b ⣿strikes ─supply @now m min x fit :band +mark"
-"""The picture's key (plotext's own legend does not fit small plots)."""
+__all__ = ["CurveInputs", "curve_picture", "legend"]
 
 
 @dataclass(frozen=True)
@@ -30,7 +27,9 @@ class CurveInputs:
     fitted: tuple[tuple[float, ...], tuple[float, ...], tuple[float, ...], tuple[float, ...]] | None = None
     """(pd, V_b, low, high) of a fitted bench curve and its band."""
     marks: tuple[tuple[float, float], ...] = ()
-    """Recorded strikes (pd, V)."""
+    """This session's strikes (pd, V)."""
+    saved: tuple[tuple[float, float], ...] = ()
+    """The strikes the bench's saved curve was fitted to (pd, V), drawn apart from this session's."""
     upper: tuple[float, ...] | None = None
     """The upper branch of an alternating supply's curve at the same pd (NaN where single-valued):
     the curve turns back at low pressure, and the supply strikes only between the two branches."""
@@ -38,6 +37,35 @@ class CurveInputs:
     width: int = 40
     height: int = 12
     colour: bool = True
+
+
+def legend(c: CurveInputs, width: int) -> str:
+    """The picture's key in words, only what the picture shows, in at most ``width`` characters
+    (the least needed entries go first when it does not fit). plotext's own legend does not fit small
+    plots."""
+    y = [v for v in c.vb if v == v and v > 0]
+    entries = [("• V_b" if c.upper is None else "• V_b both branches", 0)]
+    if c.supply is not None and c.supply > 0:
+        if any(v <= c.supply for v in y):
+            entries.append(("⣿ strikes", 1))
+        entries.append(("─ supply", 2))
+    if c.point is not None:
+        entries.append(("@ now" if c.point[1] == c.point[1] else "| now", 0))
+    entries.append(("m min", 4))
+    if c.fitted is not None:
+        entries += [("x fit", 1), (": band", 3)]
+    if c.marks:
+        entries.append(("+ marks", 1))
+    if c.saved:
+        entries.append(("o fitted marks", 2))
+    for cut in (5, 4, 3, 2, 1):
+        text = "  ".join(e for e, rank in entries if rank < cut)
+        if len(text) <= width:
+            return text
+        text = " ".join(e for e, rank in entries if rank < cut)
+        if len(text) <= width:
+            return text
+    return text[:width]
 
 
 def _ticks(lo: float, hi: float) -> tuple[list[float], list[str]]:
@@ -114,11 +142,12 @@ def curve_picture(c: CurveInputs) -> str:
                 b = g & np.isfinite(band) & (band >= lo_clip) & (band <= hi_clip)
                 if b.any():
                     plt.scatter(list(np.log10(fx[b])), list(np.log10(band[b])), marker=":", color="magenta")
-    if c.marks:
-        mx = [math.log10(a) for a, b in c.marks if a > 0 and b > 0]
-        my = [math.log10(b) for a, b in c.marks if a > 0 and b > 0]
-        plt.scatter(mx, my, marker="+", color="yellow")
-        ys.append(np.array([b for _, b in c.marks if b > 0]))
+    for marks, marker in ((c.saved, "o"), (c.marks, "+")):
+        if marks:
+            mx = [math.log10(a) for a, b in marks if a > 0 and b > 0]
+            my = [math.log10(b) for a, b in marks if a > 0 and b > 0]
+            plt.scatter(mx, my, marker=marker, color="yellow")
+            ys.append(np.array([b for _, b in marks if b > 0]))
     plt.scatter([math.log10(c.minimum[0])], [math.log10(c.minimum[1])], marker="m", color="white")
     if c.point is not None and math.isfinite(c.point[1]) and c.point[1] > 0:
         plt.scatter([math.log10(c.point[0])], [math.log10(c.point[1])], marker="@", color="red")

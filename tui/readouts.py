@@ -12,6 +12,7 @@ from ..drivers.reading import Reading
 from ..model.units import convert, format_value, from_amplitude
 from .session import View
 from .text import CONVENTION_TAG, UNIT_SYSTEMS, amps, pd_text, state_word
+from .unitwords import in_units
 
 if TYPE_CHECKING:
     from ..model.forecast import Forecast
@@ -62,11 +63,13 @@ def readout_lines(
     voltage: float | None,
     fill: str = "",
     convention: str | None = None,
+    wide: bool = False,
 ) -> list[tuple[str, str, str]]:
     """(label, value, style) rows of the readouts panel; style is "", "bad", "warn" or "good".
     ``fill`` is the gas fill in a few characters; a mixture, or a fill from the flow meters, gets a
     row of its own, and a reactive process a row for the target (both last: a short terminal clips
-    them first). ``convention`` (peak, rms or pp) shows an alternating supply's voltages."""
+    them first). ``convention`` (peak, rms or pp) shows an alternating supply's voltages; ``wide``
+    (a wide terminal) adds what the band is made of and what limits the glow."""
     pu, lu, _ = UNIT_SYSTEMS[system]
     p = view.pressure
     mark = {name: (">" if selected == name else " ") for name in NUDGE_FIELDS}
@@ -103,7 +106,8 @@ def readout_lines(
         rows.append(("breakdown", "none at any voltage", "warn"))
     else:
         lo, hi = f.breakdown_band
-        band = "" if lo is None or hi is None else f" ({lo * k:.0f}-{hi * k:.0f})"
+        band = "" if lo is None or hi is None else f" ({lo * k:.0f}-{hi * k:.0f}"
+        band += (f": {f.band_source})" if wide else ")") if band else ""
         rows.append(("breakdown", f"{f.breakdown_voltage * k:.0f} V{tag}{band}", ""))
     if f.margin is None:
         rows.append(("margin", "none", "warn"))
@@ -129,8 +133,13 @@ def readout_lines(
     elif ll is None:
         rows.append(("glow", "no strike" if not f.strikes else "no supply data", ""))
     else:
+        limit = f", limited by the {ll.limited_by.replace('_', ' ')}" if wide else ""
         rows.append(
-            ("glow", f"{ll.regime.replace('_', ' ')} {amps(ll.current)}", "bad" if ll.regime == "arc_risk" else "")
+            (
+                "glow",
+                f"{ll.regime.replace('_', ' ')} {amps(ll.current)}{limit}",
+                "bad" if ll.regime == "arc_risk" else "",
+            )
         )
     return rows + _fill_rows(view, fill)
 
@@ -186,12 +195,36 @@ def channel_line(
     return parts
 
 
-def flag_lines(f: Forecast | None) -> list[tuple[str, str, str]]:
-    """(level word, code, reason) of the flags, worst first."""
+def flags_text(rows: list[tuple[str, str, str]], withdrawn: str | None, width: int, height: int):
+    """The flags panel: (rich Text, whether it wraps). Every sentence whole when the wrapped lines fit
+    the panel's ``height``; otherwise one line each, cut at the edge (the `d` screen shows them all)."""
+    from rich.text import Text
+
+    lines = ([f"WITHDRAWN no forecast: {withdrawn}"] if withdrawn is not None else []) + [
+        f"{level:<6} {code}: {reason}" for level, code, reason in rows
+    ]
+    needed = sum(-(-len(line) // max(width, 1)) for line in lines)
+    wrapped = 0 < width and needed <= height
+    t = Text(no_wrap=not wrapped, overflow="fold" if wrapped else "ellipsis")
+    if withdrawn is not None:
+        t.append("WITHDRAWN ", style="bold reverse")
+        t.append(f"no forecast: {withdrawn}")
+    for i, (level, code, reason) in enumerate(rows):
+        if i or withdrawn is not None:
+            t.append("\n")
+        t.append(f"{level:<6} ", style=LEVEL_STYLE.get(level, ""))
+        t.append(f"{code}: {reason}")
+    return t, wrapped
+
+
+def flag_lines(f: Forecast | None, system: str = "SI") -> list[tuple[str, str, str]]:
+    """(level word, code, reason in the unit system's units) of the flags, worst first."""
     if f is None:
         return []
     order = {"danger": 0, "watch": 1, "ok": 2}
-    return [(LEVEL_WORD[x.level], x.code, x.reason) for x in sorted(f.flags, key=lambda x: order[x.level])]
+    return [
+        (LEVEL_WORD[x.level], x.code, in_units(x.reason, system)) for x in sorted(f.flags, key=lambda x: order[x.level])
+    ]
 
 
 _BARS = "▁▂▃▄▅▆▇█"

@@ -24,10 +24,10 @@ from textual.widgets import Static
 from ..drivers.logbook import iso_utc
 from .keys import BINDINGS, KEY_HINTS, KeyActions
 from .messages import Fresh, LogbookNote, PortNote, ReplayNote, Skipped
-from .plot import LEGEND
-from .readouts import LEVEL_STYLE, STYLE, channel_line, flag_lines, readout_lines, sparkline
+from .readouts import STYLE, channel_line, flag_lines, flags_text, readout_lines, sparkline
 from .session import Session
 from .text import UNIT_SYSTEMS, fill_label, supply_label
+from .unitwords import in_units
 
 __all__ = ["StrikelineApp"]
 
@@ -46,7 +46,7 @@ class StrikelineApp(KeyActions, App[None]):
     TITLE = "strikeline"
     ENABLE_COMMAND_PALETTE = False
     AUTO_FOCUS = None  # keys belong to the screen; the entry line takes focus only when asked
-    HORIZONTAL_BREAKPOINTS = [(0, "-narrow"), (72, "-normal")]
+    HORIZONTAL_BREAKPOINTS = [(0, "-narrow"), (72, "-normal"), (120, "-wide")]
     VERTICAL_BREAKPOINTS = [(0, "-short"), (21, "-normal"), (30, "-tall")]
     BINDINGS = BINDINGS
 
@@ -93,6 +93,10 @@ class StrikelineApp(KeyActions, App[None]):
         """The screen's fixed widgets by id, looked up once when mounted."""
         self.plot_stale = True
         """The curve must be redrawn even if its inputs look unchanged."""
+        self.stamp: Callable[[], str] = lambda: time.strftime("%H:%M:%S")
+        """The time an event line is stamped with."""
+        self.history_interval = 1.0
+        """s between the history strip's samples."""
         self._shown: dict[str, str] = {}
         self._plot_key: tuple | None = None
         self._flag_levels: tuple | None = None
@@ -118,7 +122,6 @@ class StrikelineApp(KeyActions, App[None]):
     def on_mount(self) -> None:
         self.panels = {name: self.query_one(f"#{name}", Static) for name in _PANELS}
         self.panels["plot"].border_title = "breakdown curve"
-        self.panels["plot"].border_subtitle = LEGEND
         about = f" | {self.session.profile.description}" if self.session.profile.description else ""
         self.note(f"{self.mode} on {self.session.profile.label}; '?' for keys and cautions{about}")
         for text in self.start_notes:
@@ -131,7 +134,7 @@ class StrikelineApp(KeyActions, App[None]):
         self.refresh_view()
         self.set_interval(0.25, self.refresh_view)
         self.set_interval(self.plot_interval, self.redraw_plot)
-        self.set_interval(1.0, self.sample_history)
+        self.set_interval(self.history_interval, self.sample_history)
         if self.make_source is not None:
             self.call_after_refresh(self._start_source)  # the first frame does not wait for ports
         if self.show_caution:
@@ -217,7 +220,7 @@ class StrikelineApp(KeyActions, App[None]):
 
     def record_event(self, text: str) -> None:
         """Add a timestamped line to the events strip."""
-        self.events.append(f"{time.strftime('%H:%M:%S')} {text}")
+        self.events.append(f"{self.stamp()} {text}")
         self._draw_events()
 
     def refresh_view(self) -> None:
@@ -233,7 +236,9 @@ class StrikelineApp(KeyActions, App[None]):
         self.view_ = view
         for pending in view.proposed:
             m = pending.mark
-            text = f"strike seen: {m.voltage:.0f} V at {m.pressure:.4g} Pa ({pending.proposal.signal})"
+            text = in_units(
+                f"strike seen: {m.voltage:.0f} V at {m.pressure:.4g} Pa ({pending.proposal.signal})", self.units
+            )
             self.record_event(text)
             self.note(f"{text}: y keeps it as a mark, n drops it", error=True)
         if self.session.bench.composition != fill_before and view.fill_source == "flows":
@@ -283,7 +288,8 @@ class StrikelineApp(KeyActions, App[None]):
         v = self.session.values
         convention = self.convention if self.session.alternating else None
         fill = fill_label(self.session.bench)
-        rows = readout_lines(view, self.units, self.selected, v["gap"], v["voltage"], fill, convention)
+        wide = self.size.width >= 120
+        rows = readout_lines(view, self.units, self.selected, v["gap"], v["voltage"], fill, convention, wide)
         for i in range(READOUT_LINES):
             t = Text(no_wrap=True, overflow="ellipsis")
             if i < len(rows):
@@ -297,22 +303,16 @@ class StrikelineApp(KeyActions, App[None]):
         return "\n".join(self._shown.get(f"r{i}", "").split("|", 1)[0] for i in range(READOUT_LINES))
 
     def _draw_flags(self, view, previous) -> None:
-        rows = flag_lines(view.forecast)
-        levels = (view.withdrawn, tuple((level, code) for level, code, _ in rows))
+        rows = flag_lines(view.forecast, self.units)
+        levels = (view.withdrawn, self.units, tuple((level, code) for level, code, _ in rows))
         now = self.clock()
         if levels == self._flag_levels and now - self._flags_at < FLAG_TEXT_INTERVAL:
             self._flag_events(view, previous)
             return
         self._flag_levels, self._flags_at = levels, now
-        t = Text(no_wrap=True, overflow="ellipsis")
-        if view.forecast is None:
-            t.append("WITHDRAWN ", style="bold reverse")
-            t.append(f"no forecast: {view.withdrawn}")
-        for i, (level, code, reason) in enumerate(rows):
-            if i or view.forecast is None:
-                t.append("\n")
-            t.append(f"{level:<6} ", style=LEVEL_STYLE.get(level, ""))
-            t.append(f"{code}: {reason}")
+        panel = self.panels["flags"]
+        t, wrapped = flags_text(rows, view.withdrawn if view.forecast is None else None, *panel.size)
+        panel.set_class(wrapped, "-wrapped")  # whole sentences where the rows allow, else one line each
         self._set("flags", t)
         self._flag_events(view, previous)
 
@@ -361,10 +361,15 @@ class StrikelineApp(KeyActions, App[None]):
         self.record_event(f"bench curve in use: {cv.n_points} strikes, rms {cv.rms_residual:.0f} V")
         self.refresh_view()
 
+    def _marks_here(self) -> tuple[tuple[float, float], ...]:
+        """This session's strikes in the gas fill in use, as (pd, V) for the live curve."""
+        fill = self.session.bench.composition
+        return tuple((m.pressure * m.gap, m.voltage) for m in self.session.strikes if not m.gas or m.gas == fill)
+
     def redraw_plot(self) -> None:
         """Redraw the curve if what it shows has moved by a character cell (on its own timer)."""
         from .curve_panel import live_curve
-        from .plot import curve_picture
+        from .plot import curve_picture, legend
 
         if not self.live():
             return
@@ -377,6 +382,7 @@ class StrikelineApp(KeyActions, App[None]):
             plot.size.width,  # size is the content area, inside the border
             plot.size.height,
             colour=not self.no_color,
+            marks=self._marks_here(),
         )
         if found is None:
             return
@@ -385,3 +391,4 @@ class StrikelineApp(KeyActions, App[None]):
             return
         self._plot_key, self.plot_stale = key, False
         plot.update(Text.from_ansi(curve_picture(inputs)))
+        plot.border_subtitle = legend(inputs, plot.size.width - 2)

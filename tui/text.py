@@ -6,16 +6,13 @@ from typing import TYPE_CHECKING, Any
 
 from ..drivers.logbook import iso_utc
 from ..model.units import format_value
+from .unitwords import SYSTEMS, in_units
 
 if TYPE_CHECKING:
     from ..model.forecast import Forecast
 
-UNIT_SYSTEMS = {
-    # pressure unit, length unit, pd unit (pressure, length)
-    "SI": ("Pa", "mm", ("Pa", "m")),
-    "mbar": ("mbar", "mm", ("mbar", "mm")),
-    "Torr": ("mTorr", "cm", ("Torr", "cm")),
-}
+UNIT_SYSTEMS = SYSTEMS
+"""The unit systems on offer (:mod:`.unitwords`)."""
 
 _LEVEL_MARK = {"ok": "ok    ", "watch": "WATCH ", "danger": "DANGER"}
 
@@ -140,7 +137,7 @@ def forecast_text(f: Forecast, system: str = "SI") -> str:
     lines.append("")
     lines.append("flags")
     for flag in f.flags:
-        lines.append(f"  {_LEVEL_MARK[flag.level]} {flag.code}: {flag.reason}")
+        lines.append(f"  {_LEVEL_MARK[flag.level]} {flag.code}: {in_units(flag.reason, system)}")
     if not f.flags:
         lines.append("  none")
     lines.append("")
