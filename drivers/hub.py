@@ -46,6 +46,17 @@ class Latest:
             items = list(self._latest.items())
         return {k: r.aged(now, self.stale_after.get(k)) for k, r in items}
 
+    def next_stale(self, now: float) -> float | None:
+        """The earliest moment after ``now`` at which a usable reading goes stale (None: none will)."""
+        with self._lock:
+            items = list(self._latest.items())
+        moments = [
+            r.t_mono + limit
+            for k, r in items
+            if r.usable and (limit := self.stale_after.get(k)) is not None and r.t_mono + limit > now
+        ]
+        return min(moments, default=None)
+
 
 class Instruments:
     """Start, stop and watch every port of a bench profile."""

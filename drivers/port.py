@@ -100,14 +100,31 @@ class PortReader(ReaderThread):
         port.reset_input_buffer()
         self.framer.reset()
         port.write(parser.spec.query or b"")
-        answer = port.read_until(self.spec.terminator, size=self.spec.max_line + len(self.spec.terminator))
-        lines = self.framer.feed(answer)
+        lines = self.framer.feed(self._answer(port))
         if not lines:
             # Nothing, or a partial line at timeout: never parsed as a value.
             self.framer.reset()
             self.miss(parser.spec)
             return
         self._deliver(lines[-1], [parser], attribute_to=parser)
+
+    def _answer(self, port: serial.SerialBase) -> bytes:
+        """The answer to a query: up to its terminator, a full line or the port's timeout.
+
+        Reads what has arrived in one call rather than a byte per call (pyserial's ``read_until``):
+        a 20-byte answer is then one or two reads, not twenty."""
+        term = self.spec.terminator
+        limit = self.spec.max_line + len(term)
+        answer = bytearray()
+        timeout = serial.Timeout(port.timeout)
+        while len(answer) < limit:
+            chunk = port.read(min(max(1, port.in_waiting), limit - len(answer)))
+            if not chunk:
+                break
+            answer += chunk
+            if term in answer[-len(chunk) - len(term) :] or timeout.expired():
+                break
+        return bytes(answer)
 
     def _deliver(self, line: bytes, parsers: list[ChannelParser], attribute_to: ChannelParser | None) -> None:
         now, wall = self.clock(), self.wall()

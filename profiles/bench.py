@@ -12,7 +12,6 @@ import os
 import tempfile
 from collections.abc import Mapping
 from dataclasses import dataclass, field, replace
-from importlib import resources
 from pathlib import Path
 
 from ..drivers.specs import PortSpec
@@ -79,7 +78,7 @@ def load_bench(ref: str | os.PathLike[str]) -> BenchProfile:
     """Load a bench file, or a built-in bench by name (:data:`BUILTIN_BENCHES`)."""
     ref_s = os.fspath(ref)
     if ref_s in BUILTIN_BENCHES:
-        text = resources.files("strikeline.profiles").joinpath("benches", f"{ref_s}.toml").read_text("utf-8")
+        text = (Path(__file__).with_name("benches") / f"{ref_s}.toml").read_text("utf-8")
         return parse_bench(text, ref_s, None)
     path = Path(ref_s).expanduser()
     try:

@@ -10,7 +10,7 @@ import math
 from collections.abc import Mapping
 from dataclasses import replace
 from functools import cache
-from importlib import resources
+from pathlib import Path
 
 from ..model import constants as _c
 from ..model.bench import (
@@ -33,13 +33,15 @@ __all__ = [
     "gases",
 ]
 
+_HERE = Path(__file__).parent
+"""Where the shipped data files are (``profiles/data``)."""
 PER_CM_TORR = 1.0 / (_c.centi * _c.torr)
 """1/(cm Torr) in 1/(Pa m), and V/(cm Torr) in V/(Pa m)."""
 
 
 def data_text(name: str) -> str:
     """The text of one of the shipped data files (``profiles/data/<name>``)."""
-    return resources.files("strikeline.profiles").joinpath("data", name).read_text(encoding="utf-8")
+    return (_HERE / "data" / name).read_text(encoding="utf-8")
 
 
 @cache

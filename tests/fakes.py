@@ -29,6 +29,17 @@ def wait_for(pred: Callable[[], bool], timeout: float = 5.0) -> bool:
     return pred()
 
 
+async def next_frame(pilot, timeout: float = 2.0) -> None:
+    """Wait until the live screen has drawn a frame after now (a reading that changes what is shown
+    may wait up to the pacing's MIN_FRAME for its frame)."""
+    app = pilot.app
+    before = app.pacer.frames
+    end = time.monotonic() + timeout
+    while app.pacer.frames == before and time.monotonic() < end:
+        await pilot.pause(0.01)
+    await pilot.pause()
+
+
 class PtyInstrument:
     """A device on the master side of a pseudo-terminal; the driver opens ``self.path``."""
 

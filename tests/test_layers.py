@@ -169,3 +169,38 @@ def test_screen_start_up_leaves_scipy_numpy_and_serial_out():
     loaded = set(r.stdout.split())
     for heavy in ("scipy", "numpy", "plotext", "serial", "pymodbus", "pyvisa"):
         assert not any(m == heavy or m.startswith(heavy + ".") for m in loaded), heavy
+
+
+def test_the_live_screens_first_frame_waits_for_no_heavy_import():
+    # The screen draws its layout and the bench's name first; the forecast (numpy), the curve
+    # (plotext) and the ports (pyserial) fill in after that frame. What was loaded when the first
+    # frame went out is read off the real app (headless), in a fresh interpreter.
+    code = (
+        "import asyncio, sys\n"
+        "import textual.app\n"
+        "from strikeline.profiles.loader import load_bench\n"
+        "from strikeline.tui.app import make_app\n"
+        "first = []\n"
+        "shown = textual.app.App._display\n"
+        "def display(self, screen, update):\n"
+        "    if update is not None and not first:\n"
+        "        first.append(sorted(sys.modules))\n"
+        "    return shown(self, screen, update)\n"
+        "textual.app.App._display = display\n"
+        "async def run():\n"
+        "    app = make_app(load_bench('demo'), log=False, show_caution=False)\n"
+        "    async with app.run_test(size=(80, 24)) as pilot:\n"
+        "        for _ in range(200):\n"
+        "            await pilot.pause(0.01)\n"
+        "            if app.view_ is not None:\n"
+        "                break\n"
+        "        assert app.view_ is not None and 'numpy' in sys.modules  # the forecast did follow\n"
+        "asyncio.run(run())\n"
+        "print('\\n'.join(first[0]))"
+    )
+    r = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=60)
+    assert r.returncode == 0, r.stderr[-2000:]
+    loaded = set(r.stdout.split())
+    assert "strikeline.tui.screen" in loaded
+    for heavy in ("numpy", "scipy", "plotext", "serial", "pymodbus", "pyvisa", "strikeline.tui.dialogs"):
+        assert not any(m == heavy or m.startswith(heavy + ".") for m in loaded), heavy

@@ -5,6 +5,7 @@ meets: missing port, pulled cable, silent device, garbage, a terminal server tha
 """
 
 import threading
+import time
 
 import pytest
 from fakes import PtyInstrument, TcpInstrument, wait_for
@@ -124,6 +125,41 @@ def test_protocol_a_over_a_pty(sink):
         r.stop()
         dev.close()
     assert not r.alive
+
+
+def test_an_answer_in_pieces_is_one_reading_and_a_cut_one_is_none(sink):
+    # A slow controller sends half an answer, then the rest 30 ms later (inside the 100 ms timeout):
+    # one reading. Later it sends half and falls silent: a timeout, never half a value.
+    cut = threading.Event()
+    dev: PtyInstrument
+
+    def respond(line: bytes) -> bytes:
+        if line != b"?P":
+            return b"0;650;V\r"
+        dev.write(b"0;1.")
+        if cut.is_set():
+            return b""
+        time.sleep(0.03)  # the device's own pace, not a wait in the test
+        return b"5E-2;mbar\r"
+
+    dev = PtyInstrument(respond, terminator=b"\r")
+    (spec,) = ports_of(PROTOCOL_A, url=dev.path)
+    r = PortReader(spec, sink.emit, sink.event)
+    r.start()
+    try:
+        assert wait_for(lambda: len(sink.of("chamber", Status.OK)) >= 3)
+        ok = [x.value for x in sink.of("chamber", Status.OK)]
+        assert ok == pytest.approx([1.5] * len(ok))
+        assert r.stats.garbled == 0
+        cut.set()
+        before = r.stats.timeouts
+        assert wait_for(lambda: r.stats.timeouts >= before + 2)
+        ok = [x.value for x in sink.of("chamber", Status.OK)]
+        assert ok == pytest.approx([1.5] * len(ok))
+        assert r.stats.garbled == 0
+    finally:
+        r.stop()
+        dev.close()
 
 
 def test_pty_unplugged_mid_run_is_lost_and_keeps_trying(sink):

@@ -7,7 +7,7 @@ exception the app met, so each run below fails loudly if one did.
 from dataclasses import replace
 
 import pytest
-from fakes import wait_for
+from fakes import next_frame, wait_for
 from strikeline.profiles.loader import load_bench
 from strikeline.tui.app import Fresh, make_app
 
@@ -49,7 +49,7 @@ async def test_a_reading_after_a_panel_is_removed_does_not_crash():
         await app.query_one("#flags").remove()
         app.session.set_value("pressure", "5 Pa")  # the flags change, so their panel is drawn again
         app.post_message(Fresh(0.0))
-        await pilot.pause()
+        await next_frame(pilot)
         assert "none at any voltage" in app.readouts_text()
 
 

@@ -3,6 +3,7 @@
 import math
 
 import pytest
+from fakes import next_frame
 from strikeline.drivers.reading import Reading, Status
 from strikeline.model.bench import OperatingPoint
 from strikeline.model.forecast import forecast
@@ -23,6 +24,8 @@ class Clock:
 def text_of(app, widget_id: str) -> str:
     if widget_id == "readouts":
         return app.readouts_text()
+    if widget_id == "plot":
+        return app.query_one("#plot").plain
     content = app.query_one(f"#{widget_id}").content
     return content.plain if hasattr(content, "plain") else str(content)
 
@@ -76,7 +79,7 @@ async def test_a_reading_reaches_the_readout_and_stale_or_lost_withdraws_it():
     async with app.run_test(size=(80, 24)) as pilot:
         app.session.handle(reading(12.5, 100.0))  # indicated 12.5 Pa of argon on a thermal gauge
         app.post_message(Fresh(0.0))
-        await pilot.pause()
+        await next_frame(pilot)
         assert "20.0 Pa gas-corr." in text_of(app, "readouts") and "12.5 Pa" in text_of(app, "readouts")
         clock.t = 101.5  # the demo's channel goes stale after 1 s
         app.refresh_view()
@@ -86,11 +89,11 @@ async def test_a_reading_reaches_the_readout_and_stale_or_lost_withdraws_it():
         assert "breakdown" in text_of(app, "readouts") and " V (" not in text_of(app, "readouts")
         app.session.handle(reading(None, 101.6, Status.LOST))
         app.post_message(Fresh(0.0))
-        await pilot.pause()
+        await next_frame(pilot)
         assert "gauge lost" in text_of(app, "readouts") and "chamber LOST" in text_of(app, "channels")
         app.session.handle(reading(12.5, 101.7))
         app.post_message(Fresh(0.0))
-        await pilot.pause()
+        await next_frame(pilot)
         assert "WITHDRAWN" not in text_of(app, "readouts")
 
 
@@ -186,9 +189,9 @@ async def test_replay_plays_a_logbook_back_through_the_screen(tmp_path):
     book.close()
     app = make_app(load_bench("demo"), replay=read_logbook(path).records, speed=0, show_caution=False)
     async with app.run_test(size=(80, 24)) as pilot:
-        for _ in range(100):
+        for _ in range(100):  # until the replay ends and its last reading's frame (paced) is drawn
             await pilot.pause(0.02)
-            if "replay finished" in text_of(app, "events"):
+            if "replay finished" in text_of(app, "events") and "16.5 Pa" in text_of(app, "readouts"):
                 break
         assert "REPLAY" in text_of(app, "channels")
         assert "16.5 Pa" in text_of(app, "readouts")  # the last recorded indicated value
@@ -269,7 +272,7 @@ async def test_a_malformed_replayed_logbook_is_said_and_the_screen_goes_on(tmp_p
     async with app.run_test(size=(80, 24)) as pilot:
         for _ in range(100):
             await pilot.pause(0.02)
-            if "replay finished" in "\n".join(app.events):
+            if "replay finished" in "\n".join(app.events) and "12.5 Pa" in text_of(app, "readouts"):
                 break
         events = "\n".join(app.events)
         assert "replay: skipped 1 line: 2" in events and "replay finished" in events
@@ -324,7 +327,7 @@ async def test_a_reactive_bench_shows_its_fill_target_and_the_change_from_the_fl
         ):
             app.session.handle(reading(value, 100.0, channel=channel, quantity=quantity))
         app.post_message(Fresh(0.0))
-        await pilot.pause()
+        await next_frame(pilot)
         shown = text_of(app, "readouts")
         assert "gas         Ar 83%+O2 17% (flows)" in shown and "target      transition, " in shown
         assert "Ar 83%+O2 17% / Al" in text_of(app, "title")
@@ -347,7 +350,7 @@ async def test_an_rf_bench_names_its_supply_and_a_seen_strike_is_kept_with_one_k
         for channel, quantity, value, t in feed:
             app.session.handle(reading(value, t, channel=channel, quantity=quantity))
         app.post_message(Fresh(0.0))
-        await pilot.pause()
+        await next_frame(pilot)
         assert "AC 13.56 MHz pk" in text_of(app, "title") and "regime" in text_of(app, "readouts")
         assert "strike seen: 110 V at 40 Pa" in text_of(app, "message") and "y keeps it" in text_of(app, "message")
         await pilot.press("y")

@@ -17,13 +17,12 @@ from textual.message import Message
 from ..drivers.logbook import Logbook, ReplaySource
 from ..drivers.reading import Reading
 from ..profiles.loader import BenchProfile
-from .dialogs import CAUTION
 from .keys import KEY_HINTS
 from .messages import Fresh, LogbookNote, PortNote, ReplayNote, Skipped
 from .screen import StrikelineApp
 from .session import Session
 
-__all__ = ["CAUTION", "KEY_HINTS", "Fresh", "StrikelineApp", "make_app"]
+__all__ = ["KEY_HINTS", "Fresh", "StrikelineApp", "make_app"]  # and CAUTION, loaded on use
 
 
 def _caution_marker() -> Path:
@@ -77,8 +76,9 @@ def make_app(
     session = Session(profile, logbook=logbook, manual=manual or replay is None and not profile.ports, clock=clock)
 
     def on_reading(r: Reading) -> None:
-        note = session.handle(r)
-        post(Fresh(time.perf_counter()))
+        note = session.handle(r)  # logged, every one
+        if app_ref and app_ref[0].wants(r):  # only what changes the screen wakes it (tui/pacing.py)
+            post(Fresh(time.perf_counter()))
         if note is not None:
             post(Skipped(note))
 
@@ -124,3 +124,11 @@ def make_app(
     )
     app_ref.append(app)
     return app
+
+
+def __getattr__(name: str):
+    if name == "CAUTION":  # the dialogs load with the first one opened, not with the screen
+        from .dialogs import CAUTION
+
+        return CAUTION
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

@@ -22,6 +22,29 @@ __all__ = ["CalibrationScreen"]
 class CalibrationScreen(ModalScreen[None]):
     """Fit this bench's curve to the session's strike marks; accept, save or discard."""
 
+    DEFAULT_CSS = """
+    CalibrationScreen {
+        align: center middle;
+    }
+    CalibrationScreen #calib-box {
+        width: 100%;
+        height: 100%;
+        border: heavy $primary;
+        padding: 0 1;
+        background: $surface;
+    }
+    CalibrationScreen #calib-text {
+        height: auto;
+    }
+    CalibrationScreen #calib-hint {
+        height: auto;
+        text-style: bold;
+    }
+    CalibrationScreen #calib-plot {
+        height: 1fr;
+    }
+    """
+
     BINDINGS = [
         Binding("1", "free('A,B')", "fit A,B"),
         Binding("2", "free('B,gamma')", "fit B,gamma"),

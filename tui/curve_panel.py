@@ -32,10 +32,12 @@ def live_curve(
     height: int,
     colour: bool,
     marks: tuple[tuple[float, float], ...] = (),
-) -> tuple[tuple, CurveInputs] | None:
+    known: tuple | None = None,
+) -> tuple[tuple, CurveInputs | None] | None:
     """(key, picture inputs) for the live panel of ``width`` x ``height`` cells, or None when the
     panel is too small to draw. ``values`` are the session's gap, voltage and gas temperature;
     ``marks`` this session's strikes as (pd in Pa m, V); the bench curve's own are drawn apart.
+    When the key equals ``known`` (the picture on screen) the inputs are None: nothing is drawn.
 
     The key holds what the picture depends on: gas, cathode, gamma, supply voltage, units, size,
     the operating point rounded to a character cell, gas temperature and the fitted curve.
@@ -66,9 +68,6 @@ def live_curve(
     if f is not None:  # the operating point is always on the picture, even left of the asymptote
         lo = min(lo, f.reduced_pd / 2)
         hi = max(hi, f.reduced_pd * 3)
-    rpd = np.geomspace(lo, hi, max(width * 2, 60))
-    vb, _w = law.voltage(rpd)
-    upper = None if freq is None else tuple(law.upper(rpd))
     to_x = pd_display(1.0, units)
     point = None
     if f is not None:
@@ -85,6 +84,11 @@ def live_curve(
     key = (bench.composition, bench.cathode.key, gamma, values["voltage"], units, width, height, bucket, T, ratio)
     key += (freq, values["gap"] if freq is not None else None, marks)
     key += (bench.curve,)
+    if key == known:
+        return key, None  # the picture would not change: nothing is worked out
+    rpd = np.geomspace(lo, hi, max(width * 2, 60))
+    vb, _w = law.voltage(rpd)
+    upper = None if freq is None else tuple(law.upper(rpd))
     inputs = CurveInputs(
         pd=tuple(rpd / k * to_x),
         vb=tuple(vb),

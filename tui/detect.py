@@ -48,11 +48,14 @@ class StrikeDetector:
         """(t, value) of each quantity over the last window."""
         self.lit = False
 
-    def _keep(self, r: Reading) -> None:
+    def _keep(self, r: Reading) -> list[float]:
+        """Keep ``r``; the values of its quantity within the window before it."""
         q = self.recent.setdefault(r.quantity, deque())
-        q.append((r.t_mono, r.value))
         while q and q[0][0] < r.t_mono - self.s.window:
             q.popleft()
+        earlier = [v for _t, v in q]
+        q.append((r.t_mono, r.value))
+        return earlier
 
     def _highest(self, quantity: str, before: float) -> float | None:
         vals = [v for t, v in self.recent.get(quantity, ()) if t <= before]
@@ -66,9 +69,7 @@ class StrikeDetector:
         """Take one reading; a proposal when it completes the signs of ignition."""
         if not r.usable or r.value is None:
             return None
-        since = r.t_mono - self.s.window
-        earlier = {q: [(t, v) for t, v in vals if t >= since] for q, vals in self.recent.items()}
-        self._keep(r)
+        earlier = self._keep(r)  # only the reading's own quantity is looked back on
         if r.quantity == "current":
             return self._dc(r, earlier)
         if r.quantity == "self_bias":
@@ -81,12 +82,12 @@ class StrikeDetector:
         self.lit = True
         return Proposal(r.t_mono, r.t_wall, voltage, signal)
 
-    def _dc(self, r: Reading, earlier) -> Proposal | None:
+    def _dc(self, r: Reading, earlier: list[float]) -> Proposal | None:
         i = abs(r.value)
         if i < self.s.dark_current:
             self.lit = False
             return None
-        was_dark = any(abs(v) < self.s.dark_current for _t, v in earlier.get("current", ()))
+        was_dark = any(abs(v) < self.s.dark_current for v in earlier)
         if self.lit or i < self.s.lit_current or not was_dark:
             return None
         peak, now = self._highest("voltage", r.t_mono), self._latest("voltage")
@@ -100,22 +101,22 @@ class StrikeDetector:
         pp = self._highest("rf_voltage", before)
         return None if pp is None else pp / 2.0
 
-    def _bias(self, r: Reading, earlier) -> Proposal | None:
+    def _bias(self, r: Reading, earlier: list[float]) -> Proposal | None:
         b = abs(r.value)
         if b < self.s.bias_on / 5.0:
             self.lit = False
             return None
-        was_dark = any(abs(v) < self.s.bias_on / 5.0 for _t, v in earlier.get("self_bias", ()))
+        was_dark = any(abs(v) < self.s.bias_on / 5.0 for v in earlier)
         if self.lit or b < self.s.bias_on or not was_dark:
             return None
         return self._fire(r, self._rf_voltage(r.t_mono), f"self-bias appeared: {r.value:.0f} V")
 
-    def _reflected(self, r: Reading, earlier) -> Proposal | None:
+    def _reflected(self, r: Reading, earlier: list[float]) -> Proposal | None:
         forward = self._latest("forward_power")
         if forward is None or forward < _FORWARD_ON:
             self.lit = False
             return None
-        peak = max((v for _t, v in earlier.get("reflected_power", ())), default=None)
+        peak = max(earlier, default=None)
         if self.lit or peak is None or peak <= 0 or r.value > (1.0 - self.s.reflected_fall) * peak:
             return None
         return self._fire(r, self._rf_voltage(r.t_mono), f"reflected power dropped from {peak:.3g} to {r.value:.3g} W")

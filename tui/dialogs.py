@@ -11,7 +11,7 @@ from textual.widgets import Static
 
 from .readouts import LEVEL_STYLE
 
-__all__ = ["CAUTION", "CautionScreen", "FlagsScreen", "HelpScreen"]
+__all__ = ["CAUTION", "CautionScreen", "FlagsScreen", "HelpScreen", "Notice"]
 
 CAUTION = (
     "HIGH VOLTAGE CAN KILL. strikeline is advisory: it reads instruments and controls nothing, "
@@ -22,7 +22,46 @@ CAUTION = (
 )
 
 
-class CautionScreen(ModalScreen[None]):
+class Notice(ModalScreen[None]):
+    """A modal screen of sentences that wrap, over the live screen; its looks load with the first one
+    opened, not with the live screen."""
+
+    DEFAULT_CSS = """
+    Notice {
+        align: center middle;
+    }
+    Notice #caution-box, Notice #help-box {
+        width: 76;
+        max-width: 100%;
+        height: auto;
+        max-height: 100%;
+        border: heavy $error;
+        padding: 0 1;
+        background: $surface;
+    }
+    Notice #caution-title {
+        text-style: bold reverse;
+    }
+    Notice #caution-hint {
+        text-style: bold;
+    }
+    Notice .flag-reason {
+        padding-left: 7;
+    }
+    Notice .help-row {
+        height: auto;
+    }
+    Notice .help-key {
+        width: 14;
+        padding-left: 2;
+    }
+    Notice .help-what {
+        width: 1fr;
+    }
+    """
+
+
+class CautionScreen(Notice):
     """The high-voltage cautions, shown on first start and on request."""
 
     BINDINGS = [Binding("enter,escape,space", "dismiss", "continue")]
@@ -34,7 +73,7 @@ class CautionScreen(ModalScreen[None]):
             yield Static("Press Enter to continue.", id="caution-hint")
 
 
-class HelpScreen(ModalScreen[None]):
+class HelpScreen(Notice):
     """Cautions first (they must always be whole), then every key; scrolls on small terminals."""
 
     BINDINGS = [Binding("escape,q,question_mark,enter", "dismiss", "close")]
@@ -56,7 +95,7 @@ class HelpScreen(ModalScreen[None]):
             yield Static("Escape closes.", id="caution-hint")
 
 
-class FlagsScreen(ModalScreen[None]):
+class FlagsScreen(Notice):
     """Every flag of the forecast with its full reason, worst first."""
 
     BINDINGS = [Binding("escape,q,d,enter", "dismiss", "close")]

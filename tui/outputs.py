@@ -12,9 +12,6 @@ from collections.abc import Callable
 from pathlib import Path
 from typing import Any
 
-from ..model.results import json_safe
-from ..profiles.bench import write_atomic
-
 __all__ = ["OutputError", "StdoutGuard", "check_output_file", "print_json", "write_file"]
 
 
@@ -24,6 +21,8 @@ class OutputError(Exception):
 
 def print_json(obj: Any, *, indent: int | None = 2, flush: bool = False) -> None:
     """Print ``obj`` as JSON with every NaN or infinity as null (JSON has neither)."""
+    from ..model.results import json_safe  # with the first JSON, not with the screen
+
     print(json.dumps(json_safe(obj), indent=indent, allow_nan=False), flush=flush)
 
 
@@ -66,6 +65,8 @@ def _first_line(p: Path) -> str:
 def write_file(path: Path, text: str, option: str) -> None:
     """Write ``text`` to ``path`` atomically (a temporary file and a rename); one-line failure."""
     try:
+        from ..profiles.bench import write_atomic
+
         write_atomic(path, text)
     except OSError as e:
         raise OutputError(f"{option} {str(path)!r}: cannot be written ({e.strerror or e})") from None

@@ -1,10 +1,10 @@
 """The live tuning screen (Textual): layout, what reaches it from threads, and its drawing.
 
-Reader threads hand each reading to the Session (which logs it) and post a small
-:class:`~strikeline.tui.messages.Fresh` message; a burst collapses to one, so the screen never
-backs up. The readouts update per message; the curve redraws on its own slow timer and only
-when what it shows has moved by at least a character cell. Built only by
-:func:`strikeline.tui.app.make_app`.
+Reader threads hand each reading to the Session (which logs it, every one) and post a small
+:class:`~strikeline.tui.messages.Fresh` message only when it changes what is shown
+(:mod:`~strikeline.tui.pacing`); a burst becomes one frame of the latest values. Only the widgets
+whose text changed repaint; the curve redraws on its own slow timer and only when what it shows has
+moved by at least a character cell. Built only by :func:`strikeline.tui.app.make_app`.
 """
 
 from __future__ import annotations
@@ -18,12 +18,14 @@ from typing import Any
 
 from rich.text import Text
 from textual.app import App, ComposeResult
-from textual.containers import Horizontal, Vertical
+from textual.containers import Horizontal
 from textual.widgets import Static
 
 from ..drivers.logbook import iso_utc
 from .keys import BINDINGS, KEY_HINTS, KeyActions
+from .lines_view import LinesView
 from .messages import Fresh, LogbookNote, PortNote, ReplayNote, Skipped
+from .pacing import HEARTBEAT, Pacer
 from .readouts import STYLE, channel_line, flag_lines, flags_text, readout_lines, sparkline
 from .session import Session
 from .text import UNIT_SYSTEMS, fill_label, supply_label
@@ -34,9 +36,7 @@ __all__ = ["StrikelineApp"]
 READOUT_LINES = 13
 FLAG_TEXT_INTERVAL = 1.0
 """s: numbers inside flag reasons refresh this often; levels change at once."""
-_PANELS = ("title", "channels", "plot", "flags", "history", "events", "message", "keys") + tuple(
-    f"r{i}" for i in range(READOUT_LINES)
-)
+_PANELS = ("title", "channels", "readouts", "plot", "flags", "history", "events", "message", "keys")
 
 
 class StrikelineApp(KeyActions, App[None]):
@@ -59,7 +59,7 @@ class StrikelineApp(KeyActions, App[None]):
         show_caution: bool = False,
         caution_marker: Path | None = None,
         clock: Callable[[], float] = time.monotonic,
-        plot_interval: float = 0.5,
+        plot_interval: float = 1.0,
         units: str = "SI",
         notes: tuple[str, ...] = (),
     ):
@@ -89,17 +89,22 @@ class StrikelineApp(KeyActions, App[None]):
         self.latency_probe: Callable[[float], None] | None = None
         self.start_notes = notes
         """Said as the first events (e.g. the lines a replayed logbook skipped)."""
-        self.panels: dict[str, Static] = {}
+        self.panels: dict[str, Any] = {}
         """The screen's fixed widgets by id, looked up once when mounted."""
         self.plot_stale = True
         """The curve must be redrawn even if its inputs look unchanged."""
         self.stamp: Callable[[], str] = lambda: time.strftime("%H:%M:%S")
         """The time an event line is stamped with."""
-        self.history_interval = 1.0
+        self.history_interval = HEARTBEAT
         """s between the history strip's samples."""
         self._shown: dict[str, str] = {}
         self._plot_key: tuple | None = None
         self._flag_levels: tuple | None = None
+        self.pacer = Pacer()
+        self._soon = None
+        """The frame a burst of readings is waiting for."""
+        self._stale = None
+        """The frame due when the next reading goes stale."""
         self._flags_at = -math.inf
 
     # -- layout and life cycle ----------------------------------------------------------
@@ -108,11 +113,9 @@ class StrikelineApp(KeyActions, App[None]):
         yield Static(id="title")
         yield Static(id="channels")
         with Horizontal(id="main"):
-            # One widget per line: a reading repaints only the lines whose text changed.
-            with Vertical(id="readouts"):
-                for i in range(READOUT_LINES):
-                    yield Static(id=f"r{i}", classes="readout")
-            yield Static(id="plot")
+            # Line panels: a reading repaints only the lines whose text changed.
+            yield LinesView(id="readouts")
+            yield LinesView(id="plot")
         yield Static(id="flags")
         yield Static(id="history")
         yield Static(id="events")
@@ -120,7 +123,7 @@ class StrikelineApp(KeyActions, App[None]):
         yield Static(KEY_HINTS, id="keys")
 
     def on_mount(self) -> None:
-        self.panels = {name: self.query_one(f"#{name}", Static) for name in _PANELS}
+        self.panels = {name: self.query_one(f"#{name}") for name in _PANELS}
         self.panels["plot"].border_title = "breakdown curve"
         about = f" | {self.session.profile.description}" if self.session.profile.description else ""
         self.note(f"{self.mode} on {self.session.profile.label}; '?' for keys and cautions{about}")
@@ -131,22 +134,28 @@ class StrikelineApp(KeyActions, App[None]):
             self.logbook_trouble = book.error
             self.note(book.error, error=True)
             self.record_event(book.error)
-        self.refresh_view()
-        self.set_interval(0.25, self.refresh_view)
-        self.set_interval(self.plot_interval, self.redraw_plot)
-        self.set_interval(self.history_interval, self.sample_history)
-        if self.make_source is not None:
-            self.call_after_refresh(self._start_source)  # the first frame does not wait for ports
+        self._draw_title()
+        self._draw_channels()
+        self.panels["readouts"].show([Text("working out the forecast...")])
+        self.call_after_refresh(self._fill_in)  # the first frame waits for neither the model nor the ports
         if self.show_caution:
             from .dialogs import CautionScreen
 
             self.push_screen(CautionScreen(), self._caution_seen)
 
-    def _start_source(self) -> None:
-        if self.leaving:
+    def _fill_in(self) -> None:
+        """After the first frame: the forecast (numpy loads here), the curve (plotext), the timers and
+        then the readings (pyserial)."""
+        if not self.live():
             return
-        self.source = self.make_source()  # pyserial loads here, after the first frame
-        self.source.start()
+        self.refresh_view()
+        self.redraw_plot()
+        self.set_interval(HEARTBEAT, self.refresh_view)  # readings that matter draw at once (on_fresh)
+        self.set_interval(self.plot_interval, self.redraw_plot)
+        self.set_interval(self.history_interval, self.sample_history)
+        if self.make_source is not None:
+            self.source = self.make_source()
+            self.source.start()
 
     def _caution_seen(self, _result=None) -> None:
         if self.caution_marker is not None:
@@ -176,11 +185,23 @@ class StrikelineApp(KeyActions, App[None]):
 
     # -- from the threads ---------------------------------------------------------
 
+    def wants(self, reading) -> bool:
+        """Whether a reading just handled (any thread) changes what the screen shows: a strike the
+        instruments showed, a change of state, or a shown value moving by more than noise. Paused or
+        going away, nothing does."""
+        if self.paused or not self.live():
+            return False
+        return bool(self.session.marks.seen) or self.pacer.worth_a_frame(self.session.latest.all(self.clock()))
+
     def on_fresh(self, message: Fresh) -> None:
-        if not self.paused:
-            self.refresh_view()
         if self.latency_probe is not None:
             self.latency_probe(message.t_sent)
+        if not self.paused and self.live() and self.wants(None):
+            wait = self.pacer.wait(self.clock())
+            if not wait:
+                self._frame_due()
+            elif self._soon is None:  # a burst: one frame of the latest values, MIN_FRAME after the last
+                self._soon = self.set_timer(wait, self._frame_due)
 
     def on_port_note(self, m: PortNote) -> None:
         self.record_event(f"{m.port}: {m.kind} {m.text}")
@@ -223,10 +244,35 @@ class StrikelineApp(KeyActions, App[None]):
         self.events.append(f"{self.stamp()} {text}")
         self._draw_events()
 
+    def _frame_due(self) -> None:
+        self._soon = None
+        self.pacer.paced(self.clock())
+        self.refresh_view()
+
+    def _arm_stale(self, now: float) -> None:
+        # a reading about to go stale brings its own frame: the screen never shows it live past its limit
+        if self._stale is not None:
+            self._stale.stop()
+        at = self.session.latest.next_stale(now)
+        self._stale = None if at is None else self.set_timer(at - now + 0.005, self._stale_due)
+
+    def _stale_due(self) -> None:
+        self._stale = None
+        if not self.live():
+            return
+        now = self.clock()
+        if self.pacer.worth_a_frame(self.session.latest.all(now)):  # a channel went stale
+            self.refresh_view()
+        else:  # a newer reading arrived in time: wait for its own limit
+            self._arm_stale(now)
+
     def refresh_view(self) -> None:
         """Ask the Session for the forecast now and redraw what changed."""
         if not self.live():
             return
+        now = self.clock()
+        self.pacer.drawn(self.session.latest.all(now))
+        self._arm_stale(now)
         if self.paused and self.view_ is not None:
             self._draw_title()
             return
@@ -290,17 +336,17 @@ class StrikelineApp(KeyActions, App[None]):
         fill = fill_label(self.session.bench)
         wide = self.size.width >= 120
         rows = readout_lines(view, self.units, self.selected, v["gap"], v["voltage"], fill, convention, wide)
-        for i in range(READOUT_LINES):
-            t = Text(no_wrap=True, overflow="ellipsis")
-            if i < len(rows):
-                label, value, style = rows[i]
-                t.append(f"{label:<12}", style="bold" if label.startswith(">") else "")
-                t.append(value, style=STYLE[style])
-            self._set(f"r{i}", t)
+        lines = []
+        for label, value, style in rows[:READOUT_LINES]:
+            t = Text()
+            t.append(f"{label:<12}", style="bold" if label.startswith(">") else "")
+            t.append(value, style=STYLE[style])
+            lines.append(t)
+        self.panels["readouts"].show(lines)
 
     def readouts_text(self) -> str:
         """The readouts as plain text (what the operator sees in that panel)."""
-        return "\n".join(self._shown.get(f"r{i}", "").split("|", 1)[0] for i in range(READOUT_LINES))
+        return self.panels["readouts"].plain
 
     def _draw_flags(self, view, previous) -> None:
         rows = flag_lines(view.forecast, self.units)
@@ -335,7 +381,7 @@ class StrikelineApp(KeyActions, App[None]):
         self._set("events", Text(text, no_wrap=True, overflow="ellipsis"))
 
     def sample_history(self) -> None:
-        """Add the latest pressure and breakdown voltage to the history strip (once a second)."""
+        """Add the latest pressure and breakdown voltage to the history strip (every heartbeat)."""
         v = self.view_
         if v is None or self.paused or not self.live():
             return
@@ -351,7 +397,8 @@ class StrikelineApp(KeyActions, App[None]):
             span = f" {format_value(min(good), 'pressure', pu)}..{format_value(max(good), 'pressure', pu)}"
         t = Text(no_wrap=True, overflow="ellipsis")
         t.append(f"pressure  {sparkline(list(self.history_p), width)}{span}")
-        t.append(f"\nbreakdown {sparkline(list(self.history_v), width)} last {len(self.history_p)} s")
+        seconds = len(self.history_p) * self.history_interval
+        t.append(f"\nbreakdown {sparkline(list(self.history_v), width)} last {seconds:.0f} s")
         self._set("history", t)
 
     def use_curve(self, cv) -> None:
@@ -383,12 +430,15 @@ class StrikelineApp(KeyActions, App[None]):
             plot.size.height,
             colour=not self.no_color,
             marks=self._marks_here(),
+            known=None if self.plot_stale else self._plot_key,
         )
         if found is None:
             return
         key, inputs = found
-        if key == self._plot_key and not self.plot_stale:
+        if inputs is None or (key == self._plot_key and not self.plot_stale):
             return
         self._plot_key, self.plot_stale = key, False
-        plot.update(Text.from_ansi(curve_picture(inputs)))
-        plot.border_subtitle = legend(inputs, plot.size.width - 2)
+        plot.show_ansi(curve_picture(inputs))  # only the lines that changed go to the terminal
+        key_line = legend(inputs, plot.size.width - 2)
+        if plot.border_subtitle != key_line:
+            plot.border_subtitle = key_line

@@ -20,7 +20,7 @@ FIGURES = (
 )
 BUDGETS = {
     "rf_vs_dc": ("<=", 4.0),  # "no more than a few DC curves"
-    "curve_vs_log": ("<=", 4.0),
+    "curve_vs_log": ("<=", 2.0),
     "curve_vs_rootfind": (">=", 100.0),
     "mixture_vs_pure": ("<=", 2.0),  # no more than the number of components (two) times a pure curve
 }

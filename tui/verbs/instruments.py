@@ -137,12 +137,13 @@ def _profile(args: argparse.Namespace):
 def cmd_live(args: argparse.Namespace) -> int:
     from ...drivers.logbook import refuse_foreign
     from ..app import make_app
-    from ..logread import read_log, skipped_text
 
     profile = _profile(args)
     replay = None
     notes: list[str] = []
     if args.replay is not None:
+        from ..logread import read_log, skipped_text
+
         try:
             log = read_log(args.replay)
         except OSError as e:
