@@ -26,7 +26,7 @@ import stat
 import threading
 import time
 from collections import deque
-from collections.abc import Callable, Mapping
+from collections.abc import Callable, Iterator, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
@@ -41,6 +41,8 @@ __all__ = [
     "LogbookRefused",
     "ReplaySource",
     "iso_utc",
+    "iter_logbook",
+    "line_spans",
     "read_logbook",
     "reading_from_record",
     "refuse_foreign",
@@ -271,26 +273,81 @@ def read_logbook(path: str | os.PathLike[str], ranges: Mapping[str, tuple[float,
     skipped and reported by number with its reason, and a torn last line (a crash mid-write) is
     tolerated. Raises OSError when the file cannot be read at all."""
     out = LogRead()
-    with open(path, encoding="utf-8", errors="replace", newline="") as f:
-        lines = f.read().split("\n")  # JSON lines end in LF (a CR before it is tolerated), nothing else
-    last = len(lines)
-    for i, line in enumerate(lines, 1):
-        if not line.strip():
-            continue
-        try:
-            rec = json.loads(line.removesuffix("\r"), parse_constant=_no_constants)
-        except ValueError as e:
-            if i == last:  # no newline after it: cut short by a crash
-                out.torn_tail = True
-            else:
-                out.skipped.append((i, f"not JSON ({str(e).split(':')[0]})"))
-            continue
-        problem = record_problem(rec, ranges)
-        if problem is not None:
-            out.skipped.append((i, problem))
-            continue
-        out.records.append(rec)
+    out.records.extend(iter_logbook(path, ranges, out))
     return out
+
+
+_DECODER = json.JSONDecoder(parse_constant=_no_constants)
+"""One decoder for every line (``json.loads`` with an option builds a new one per call)."""
+
+
+def iter_logbook(
+    path: str | os.PathLike[str],
+    ranges: Mapping[str, tuple[float, float]] | None,
+    read: LogRead,
+    span: tuple[int, int | None] = (0, None),
+) -> Iterator[dict[str, Any]]:
+    """The readable records of a logbook one at a time, checked as :func:`read_logbook` checks them;
+    what is skipped (and a torn last line) is noted in ``read`` (its ``records`` stay empty), so a
+    long logbook never has to be in memory at once. ``span`` (first byte, end byte or None) reads a
+    part that starts at a line's start (see :func:`line_spans`); its skipped lines are numbered from
+    that part's first line. Raises OSError when the file cannot be read."""
+    first, end = span
+    with open(path, "rb") as f:  # JSON lines end in LF (a CR before it is tolerated), nothing else
+        f.seek(first)
+        at = first
+        for i, raw in enumerate(f, 1):
+            if end is not None and at >= end:
+                break
+            at += len(raw)
+            line = raw.decode("utf-8", "replace")
+            if len(line) < 3 and not line.strip():
+                continue
+            try:
+                rec = _DECODER.decode(line)  # the LF (and a CR before it) is whitespace to JSON
+            except ValueError as e:
+                if not line.endswith("\n"):  # the last line, no newline after it: cut short by a crash
+                    read.torn_tail = True
+                else:
+                    read.skipped.append((i, f"not JSON ({str(e).split(':')[0]})"))
+                continue
+            problem = record_problem(rec, ranges)
+            if problem is not None:
+                read.skipped.append((i, problem))
+                continue
+            yield rec
+
+
+def line_spans(path: str | os.PathLike[str], parts: int) -> list[tuple[int, int | None, int]]:
+    """``parts`` spans of about equal size that each start at a line's start: (first byte, end byte
+    or None for the end of the file, lines before it), for reading a long logbook on several cores."""
+    size = os.path.getsize(path)
+    cuts = [0]
+    with open(path, "rb") as f:
+        for k in range(1, parts):
+            f.seek(max(size * k // parts, cuts[-1]))
+            f.readline()  # to the start of the next line
+            cuts.append(min(f.tell(), size))
+        spans = []
+        lines_before = 0
+        for k, first in enumerate(cuts):
+            end = cuts[k + 1] if k + 1 < len(cuts) else None
+            spans.append((first, end, lines_before))
+            if end is not None:
+                f.seek(first)
+                lines_before += _count_lines(f, end - first)
+    return spans
+
+
+def _count_lines(f, n: int) -> int:
+    count = 0
+    while n > 0:
+        block = f.read(min(n, 1 << 20))
+        if not block:
+            break
+        count += block.count(b"\n")
+        n -= len(block)
+    return count
 
 
 def reading_from_record(rec: dict[str, Any], t_mono: float) -> Reading | None:

@@ -28,20 +28,34 @@ MAX_TEXT = 4096
 Check = Callable[[Any], bool]
 
 
+_NUMBER_TYPES = (int, float)  # exactly: a bool is an int but not a number here
+
+
 def _number(x: Any) -> bool:
-    return isinstance(x, int | float) and not isinstance(x, bool) and math.isfinite(x)
+    return type(x) in _NUMBER_TYPES and math.isfinite(x)
 
 
 def _positive(x: Any) -> bool:
     return _number(x) and x > 0
 
 
+_NAMES_SEEN: set[str] = set()
+"""Names already found good: a logbook repeats a few channel names hundreds of thousands of times."""
+
+
 def _name(x: Any) -> bool:
-    return isinstance(x, str) and 0 < len(x) <= MAX_NAME and x.isprintable()
+    if type(x) is not str:
+        return False
+    if x in _NAMES_SEEN:
+        return True
+    good = 0 < len(x) <= MAX_NAME and x.isprintable()
+    if good and len(_NAMES_SEEN) < 4096:
+        _NAMES_SEEN.add(x)
+    return good
 
 
 def _text(x: Any) -> bool:
-    return isinstance(x, str) and len(x) <= MAX_TEXT
+    return type(x) is str and len(x) <= MAX_TEXT
 
 
 def _optional(check: Check) -> Check:
@@ -125,6 +139,12 @@ KINDS = tuple(_FIELDS)
 """The record kinds this version reads."""
 
 
+_PLAN = {
+    kind: tuple((f, check, required) for f, (check, required) in fields.items()) for kind, fields in _FIELDS.items()
+}
+"""Each kind's checks as a flat tuple (read once per record, hundreds of thousands of times)."""
+
+
 def _describe(check: Check) -> str:
     return _WHAT.get(check, "a value of the documented form")
 
@@ -154,19 +174,23 @@ def record_problem(rec: Any, ranges: Mapping[str, tuple[float, float]] | None = 
         return f"mono {_shown(rec['mono'])} is not a number of seconds of 0 or more"
     if "t" in rec and not _text(rec["t"]):
         return f"t {_shown(rec['t'])} is not a time text"
-    for field, (check, required) in _FIELDS[kind].items():
-        if field not in rec:
+    ranges = ranges or {}
+    for field, check, required in _PLAN[kind]:
+        value = rec.get(field, _ABSENT)
+        if value is _ABSENT:
             if required:
                 return f"{kind} has no {field!r}"
             continue
-        value = rec[field]
         if not check(value):
             return f"{kind} field {field!r} is {_shown(value)}, not {_describe(check)}"
-        if ranges and field in ranges and _number(value):
+        if field in ranges and _number(value):
             lo, hi = ranges[field]
             if not lo <= value <= hi:
                 return f"{kind} field {field!r} is {value:g}, outside {lo:g} to {hi:g}"
     return None
+
+
+_ABSENT = object()
 
 
 def _shown(x: Any) -> str:

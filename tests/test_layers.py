@@ -202,5 +202,5 @@ def test_the_live_screens_first_frame_waits_for_no_heavy_import():
     assert r.returncode == 0, r.stderr[-2000:]
     loaded = set(r.stdout.split())
     assert "strikeline.tui.screen" in loaded
-    for heavy in ("numpy", "scipy", "plotext", "serial", "pymodbus", "pyvisa", "strikeline.tui.dialogs"):
+    for heavy in ("numpy", "scipy", "plotext", "matplotlib", "serial", "pymodbus", "pyvisa", "strikeline.tui.dialogs"):
         assert not any(m == heavy or m.startswith(heavy + ".") for m in loaded), heavy

@@ -167,6 +167,7 @@ async def test_a_moving_marker_repaints_a_few_rows_of_the_curve():
 
     app = make_app(load_bench("demo"), manual=True, log=False, show_caution=False)
     async with app.run_test(size=(80, 24)) as pilot:
+        await next_frame(pilot)  # the forecast and the curve fill in after the first frame
         app.session.set_value("pressure", "40 Pa")  # well inside the axes: they stay put below
         app.refresh_view()
         app.redraw_plot()

@@ -32,6 +32,7 @@ VERBS = [
     instruments.add_record,
     logbook.add_fit,
     logbook.add_log,
+    logbook.add_report,
     forecast.add_gases,
 ]
 """Each verb adds itself to the parser, in the order ``--help`` lists them."""

@@ -45,6 +45,7 @@ BINDINGS = [
     Binding("s", "strike", "strike!"),
     Binding("d", "flags", "flags"),
     Binding("k", "calibrate", "calib"),
+    Binding("r", "report", "report", show=False),
     Binding("question_mark", "help", "help"),
     Binding("escape", "cancel", "cancel", show=False),
     Binding("q", "quit", "quit"),
@@ -67,6 +68,7 @@ HELP_KEYS = [
     ("o", "an AC or RF supply's voltages as peak / rms / peak-to-peak"),
     ("d", "all flags with their full reasons"),
     ("k", "calibration: fit this bench's curve to its strike marks"),
+    ("r", "write the shift report of this session's logbook so far (HTML, beside the logbook)"),
     ("escape", "cancel typing"),
     ("?", "this help"),
     ("q", "quit"),
@@ -224,6 +226,35 @@ class KeyActions:
         from .calibration_screen import CalibrationScreen
 
         self.push_screen(CalibrationScreen(self))
+
+    def action_report(self) -> None:
+        book = self.session.logbook
+        if book is None:
+            self.note("no logbook in this session (a replay, or --no-log): no report to write", error=True)
+            return
+        out = book.path.with_suffix(".html")
+        self.note(f"writing the report of {book.path.name} (the screen goes on)...")
+        bench = self.session.bench  # the gas fill and the bench curve in use now
+        self.run_worker(lambda: self._write_report(book.path, out, bench), thread=True, group="report")
+
+    def _write_report(self, log, out, bench) -> None:
+        """In a worker thread (matplotlib takes a moment); says where, or why not, on the screen."""
+        from .outputs import OutputError
+        from .report import check_report_target, write_report
+        from .verbs.parser import SAFETY
+
+        try:
+            target = check_report_target(str(out), "report")
+            rep = write_report(log, target, bench=bench, caution=SAFETY, cores=1)  # no fork beside our threads
+            text, error = f"report written: {rep.path} ({rep.readings} readings, {rep.strikes} marks)", False
+        except (OSError, OutputError) as e:
+            text, error = f"report not written: {e}", True
+        if self.live():
+            self.call_from_thread(self._said, text, error)
+
+    def _said(self, text: str, error: bool) -> None:
+        self.record_event(text)
+        self.note(text, error=error)
 
     async def action_quit(self) -> None:
         self.leave()

@@ -21,8 +21,17 @@ import logbook_figures
 import modbus_figures
 import poll_figures
 import screen_figures
+import shiftreport_figures
 
-GROUPS = (curve_figures, poll_figures, modbus_figures, fit_figures, screen_figures, logbook_figures)
+GROUPS = (
+    curve_figures,
+    poll_figures,
+    modbus_figures,
+    fit_figures,
+    screen_figures,
+    logbook_figures,
+    shiftreport_figures,
+)
 FIGURES = tuple(name for g in GROUPS for name in g.FIGURES)
 BUDGETS = {name: budget for g in GROUPS for name, budget in g.BUDGETS.items()}
 

@@ -1,4 +1,5 @@
-"""The logbook and calibration verbs: ``log`` (summarise a logbook) and ``fit`` (this bench's curve)."""
+"""The logbook and calibration verbs: ``log`` (summarise a logbook), ``report`` (the shift report) and
+``fit`` (this bench's curve)."""
 
 from __future__ import annotations
 
@@ -9,7 +10,7 @@ from ..outputs import check_output_file, print_json, write_file
 from .forecast import bench_for
 from .parser import UsageError, add_gas, add_verb
 
-__all__ = ["add_fit", "add_log"]
+__all__ = ["add_fit", "add_log", "add_report"]
 
 
 def add_fit(sub) -> None:
@@ -29,6 +30,14 @@ def add_fit(sub) -> None:
     ft.add_argument("--cathode", help="cathode metal (default: the bench's)")
     ft.add_argument("--free", default="A,B", help="which of A, B, gamma to fit (default A,B)")
     ft.add_argument("--save", metavar="BENCH", help="write the fitted curve into this bench profile")
+    ft.add_argument(
+        "--figure",
+        nargs="?",
+        const="",
+        metavar="FILE",
+        help="also draw the fit: the curves, the band and the strikes (.svg, .png or .pdf); without FILE, "
+        "beside the --save profile as <profile>-fit.svg",
+    )
     ft.add_argument("--json", action="store_true", help="print the fit as JSON (SI units)")
     ft.set_defaults(run=cmd_fit)
 
@@ -46,6 +55,64 @@ def add_log(sub) -> None:
     lg.set_defaults(run=cmd_log)
 
 
+def add_report(sub) -> None:
+    rp = add_verb(
+        sub,
+        "report",
+        "write a shift report of a logbook (HTML, or its main figure)",
+        "Write one self-contained HTML file for the lab notebook: the bench, the breakdown curve with every "
+        "strike mark and the path the operating point took, pressure, supply and margin through the shift with "
+        "gaps and faults shaded, the flags' timeline and sentences, and tables of readings, faults, strike marks "
+        "and the sources of every constant. With --out x.png, x.svg or x.pdf: the curve figure alone. Nothing "
+        "in the file is fetched from a network or needs a script; it prints on A4.",
+    )
+    rp.add_argument("path", metavar="LOG", help="a logbook (.jsonl)")
+    rp.add_argument(
+        "--out",
+        metavar="FILE",
+        help="the report (.html) or the main figure (.png/.svg/.pdf); "
+        "default: the logbook's name with .html, beside it",
+    )
+    rp.add_argument(
+        "--from",
+        dest="t_from",
+        metavar="T",
+        help="only from this moment: 2026-12-02T09:30 (UTC "
+        "unless a zone is given) or a time since the log's start, '90 min'",
+    )
+    rp.add_argument("--to", dest="t_to", metavar="T", help="only up to this moment (the same forms)")
+    rp.add_argument("--bench", metavar="FILE", help="draw this bench's curve (default: the one the logbook names)")
+    rp.set_defaults(run=cmd_report)
+
+
+def cmd_report(args: argparse.Namespace) -> int:
+    from pathlib import Path
+
+    from ...profiles.loader import load_bench
+    from ..report import check_report_target, write_report
+    from .parser import SAFETY
+
+    out = args.out if args.out is not None else str(Path(args.path).with_suffix(".html"))
+    target = check_report_target(out)  # before the logbook is read: nothing is half-done
+    bench = None if args.bench is None else load_bench(args.bench).bench
+    try:
+        rep = write_report(args.path, target, bench=bench, t_from=args.t_from, t_to=args.t_to, caution=SAFETY)
+    except FileNotFoundError:
+        raise UsageError(f"strikeline report: {args.path!r}: no such file; give a logbook (.jsonl)") from None
+    except IsADirectoryError:
+        raise UsageError(f"strikeline report: {args.path!r}: is a folder; give a logbook (.jsonl)") from None
+    except OSError as e:
+        raise UsageError(f"strikeline report: {args.path!r}: cannot be read or written ({e.strerror or e})") from None
+    what = "report" if rep.figures > 1 else "main figure"
+    print(
+        f"strikeline report: {what} of {rep.readings} readings and {rep.strikes} strike marks written to {rep.path}",
+        file=sys.stderr,
+    )
+    if rep.skipped:
+        print(f"strikeline report: {args.path}: {rep.skipped}", file=sys.stderr)
+    return 0
+
+
 def cmd_fit(args: argparse.Namespace) -> int:
     from ...model.calibration import FitRefused
     from ...model.composition import same_composition
@@ -56,6 +123,7 @@ def cmd_fit(args: argparse.Namespace) -> int:
     bench = bench_for(args, need_gap=False)
     if args.save is not None:
         _check_bench_to_save(args.save)  # before any work: the file must load and its folder be writable
+    figure = None if args.figure is None else _figure_target(args.figure, args.save)
     try:
         free = parse_free(args.free)
         table = read_strike_csv(args.points)
@@ -88,7 +156,40 @@ def cmd_fit(args: argparse.Namespace) -> int:
     if args.save is not None:
         save_curve(args.save, cal.result.curve)
         print(f"strikeline fit: bench curve saved into {args.save}", file=sys.stderr)
+    if figure is not None:
+        _draw_fit(bench, cal, pts, figure)
+        print(f"strikeline fit: figure written to {figure}", file=sys.stderr)
     return 0
+
+
+def _figure_target(given: str, save: str | None):
+    from pathlib import Path
+
+    from ..report import check_report_target
+    from ..report_figures import FIGURE_FORMATS
+
+    if not given:
+        if save is None:
+            raise UsageError("strikeline fit: --figure needs a FILE, or --save BENCH to draw it beside")
+        given = str(Path(save).with_name(Path(save).stem + "-fit.svg"))
+    if Path(given).suffix.lower() not in FIGURE_FORMATS:
+        raise UsageError(f"strikeline fit: --figure {given!r}: give a .svg, .png or .pdf file")
+    return check_report_target(given, "--figure")
+
+
+def _draw_fit(bench, cal, pts, path) -> None:
+    from dataclasses import replace
+
+    import numpy as np
+
+    from ..report_data import curve_data
+    from ..report_figures import fit_figure, save
+
+    marks = [(p * d, v) for p, d, v, _t in pts]
+    fitted = replace(bench, curve=cal.result.curve)
+    curve = curve_data(fitted, np.array([pd for pd, _v in marks]))
+    curve.supply = None  # the fit says nothing of a supply
+    save(fit_figure(curve, marks, f"{bench.composition} on {bench.cathode.key}: {len(marks)} strikes fitted"), path)
 
 
 def _check_bench_to_save(path: str) -> None:
