@@ -81,7 +81,9 @@ def test_the_report_is_one_self_contained_file_with_every_part(shift, tmp_path, 
     for heading in ("1. The breakdown curve", "2. Through the shift", "3. Flags", "4. Tables"):
         assert heading in text
     assert "High voltage can kill" in text and "advisory" in text  # the caution line
-    assert "demo" in text and "copper" in text and "pulsed 10 kHz" in text  # bench, cathode, supply
+    about = dict(_tables(text)["about"])
+    assert about["bench"] == "demo" and about["cathode"] == "copper" and about["supply"].startswith("pulsed 10 kHz")
+    assert about["log"].startswith("2027-01-15T08:00:00") and about["gas"] == "Ar (argon)"
     assert text.index("1. The breakdown curve") < text.index("2. Through") < text.index("3. Flags")
     tables = _tables(text)
     readings = tables["channel"]
@@ -109,7 +111,7 @@ def _tables(text):
             [html.unescape(c) for c in re.findall(r"<td[^>]*>(.*?)</td>", row)]
             for row in re.findall(r"<tr>(.*?)</tr>", table.split("<tbody>")[1])
         ]
-        key = heads[0] if heads[0] in ("channel", "what") else "|".join(heads[:2])
+        key = "about" if not heads else heads[0] if heads[0] in ("channel", "what") else "|".join(heads[:2])
         out[key] = rows
     return out
 
@@ -151,6 +153,22 @@ def test_a_fitted_bench_curve_is_drawn_with_its_band():
     assert np.all(lo < v) and np.all(v < hi)
     fig = curve_figure(data)
     assert {ln.get_gid() for ln in fig.axes[0].get_lines()} >= {"textbook", "fitted", "supply", "minimum"}
+
+
+def test_an_rf_benchs_curve_is_its_alternating_law_with_both_branches():
+    from dataclasses import replace
+
+    from strikeline.model.breakdown import alternating_law
+
+    bench = load_bench("demo-rf").bench
+    fig = curve_figure(curve_data(bench, np.array([])))
+    lines = {ln.get_gid(): ln for ln in fig.axes[0].get_lines()}
+    law = alternating_law(replace(bench, curve=None), bench.supply.frequency, bench.gap)
+    rpd = lines["textbook"].get_xdata() * law.reference_temperature / bench.gas_temperature
+    assert np.allclose(lines["textbook"].get_ydata(), law.voltage(rpd)[0], rtol=1e-12, equal_nan=True)
+    assert np.allclose(lines["upper"].get_ydata(), law.upper(rpd), rtol=1e-12, equal_nan=True)
+    assert np.isfinite(lines["upper"].get_ydata()).any()  # the curve turns back: two branches drawn
+    assert "amplitude" in lines["supply"].get_label()
 
 
 @pytest.mark.parametrize("suffix", [".svg", ".png", ".pdf"])

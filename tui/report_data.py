@@ -248,18 +248,22 @@ class CurveData:
     """(V, low, high): the bench's fitted curve and the band the next strike should fall in."""
     minimum: tuple[float, float] = (float("nan"), float("nan"))
     supply: float | None = None
-    """V: the supply's open-circuit voltage (None: no supply in the profile)."""
+    """V: the supply's open-circuit voltage (None: no supply in the profile; an amplitude for AC)."""
     notes: list[str] = field(default_factory=list)
+    upper: np.ndarray | None = None
+    """V: an alternating supply's upper branch (NaN where the curve is single-valued)."""
 
 
 def curve_data(bench: Bench, pd_seen: np.ndarray, points: int = 400) -> CurveData:
     """The curve over a pd range that holds the minimum and every pd in ``pd_seen`` (Pa m)."""
-    from ..model.breakdown import breakdown_law
+    from ..model.breakdown import alternating_law, breakdown_law
     from ..model.calibration import prediction_band
     from ..model.forecast import with_bench_curve
 
     textbook = replace(bench, curve=None)
-    law = breakdown_law(textbook)
+    s = bench.supply
+    frequency = s.frequency if s is not None and s.mode == "ac" else None
+    law = breakdown_law(textbook) if frequency is None else alternating_law(textbook, frequency, bench.gap)
     scale = law.reference_temperature / bench.gas_temperature  # reduced pd = actual pd * scale
     pd0 = law.no_breakdown_pd() / scale
     pd_min, v_min = law.minimum()
@@ -268,16 +272,19 @@ def curve_data(bench: Bench, pd_seen: np.ndarray, points: int = 400) -> CurveDat
     hi = max(pd_min / scale * 300, *(seen * 2 if len(seen) else [0.0]))
     pd = np.geomspace(lo, hi, points)
     vb, _w = law.voltage(pd * scale)
-    notes = []
-    if bench.supply is not None and bench.supply.mode == "ac":
-        notes.append("the supply alternates: the curve drawn is the DC one; the log's forecasts used the AC law")
+    notes, upper = [], None
+    if frequency is not None:
+        upper = np.asarray(law.upper(pd * scale))
+        notes.append(
+            f"the curve is the alternating supply's at its {bench.gap * 1e3:.3g} mm gap; voltages are amplitudes"
+        )
     _b, cv = with_bench_curve(bench)
     fitted = None
-    if cv is not None:
+    if cv is not None and frequency is None:  # a fit is of Paschen's (DC) law
         v, band_lo, band_hi = prediction_band(cv, pd * scale)
         fitted = (np.asarray(v), np.asarray(band_lo), np.asarray(band_hi))
     supply = None if bench.supply is None else bench.supply.open_circuit_voltage
-    return CurveData(pd, np.asarray(vb), fitted, (pd_min / scale, v_min), supply, notes)
+    return CurveData(pd, np.asarray(vb), fitted, (pd_min / scale, v_min), supply, notes, upper)
 
 
 def constant_sources(bench: Bench) -> list[tuple[str, str, str]]:

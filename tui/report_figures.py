@@ -37,6 +37,8 @@ def curve_figure(curve: CurveData, data: ReportData | None = None, title: str = 
     fig = _mpl()(figsize=(_A4_WIDTH, 4.2))
     ax = fig.add_subplot()
     ax.plot(curve.pd, curve.textbook, "k-", lw=1.4, label="textbook breakdown voltage V_b", gid="textbook")
+    if curve.upper is not None and np.isfinite(curve.upper).any():
+        ax.plot(curve.pd, curve.upper, "k-.", lw=1.2, label="upper branch (electrons swept out)", gid="upper")
     if curve.fitted is not None:
         v, lo, hi = curve.fitted
         ax.plot(curve.pd, v, "k--", lw=1.2, label="this bench's fitted curve", gid="fitted")
@@ -52,9 +54,8 @@ def curve_figure(curve: CurveData, data: ReportData | None = None, title: str = 
             gid="band",
         )
     if curve.supply is not None:
-        ax.axhline(
-            curve.supply, color="0.3", ls=":", lw=1.2, label=f"supply {curve.supply:.0f} V open circuit", gid="supply"
-        )
+        how = "amplitude" if curve.upper is not None else "open circuit"
+        ax.axhline(curve.supply, color="0.3", ls=":", lw=1.2, label=f"supply {curve.supply:.0f} V {how}", gid="supply")
     ax.plot(*curve.minimum, "kD", ms=5, mfc="white", label="textbook minimum", gid="minimum")
     if data is not None:
         pd, v = data.path

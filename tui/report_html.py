@@ -39,9 +39,10 @@ def _e(x: Any) -> str:
 def _table(head: list[str], rows: list[list[Any]], numeric: set[int] = frozenset(), empty: str = "none") -> str:
     if not rows:
         return f"<p class='note'>{_e(empty)}</p>"
-    th = "".join(f"<th>{_e(h)}</th>" for h in head)
+    th = "".join(f"<th>{_e(h)}</th>" for h in head) if any(head) else ""
     body = "".join("<tr>" + "".join(_cell(c, i in numeric) for i, c in enumerate(r)) + "</tr>" for r in rows)
-    return f"<table><thead><tr>{th}</tr></thead><tbody>{body}</tbody></table>"
+    thead = f"<thead><tr>{th}</tr></thead>" if th else ""
+    return f"<table>{thead}<tbody>{body}</tbody></table>"
 
 
 def _cell(value: Any, numeric: bool) -> str:
