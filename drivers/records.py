@@ -59,11 +59,21 @@ def _text(x: Any) -> bool:
 
 
 def _optional(check: Check) -> Check:
-    return lambda x: x is None or check(x)
+    def optional(x: Any) -> bool:
+        return x is None or check(x)
+
+    optional.inner = check  # type: ignore[attr-defined]
+    return optional
 
 
 def _one_of(*allowed: str) -> Check:
-    return lambda x: x in allowed
+    names = frozenset(allowed)
+
+    def one_of(x: Any) -> bool:
+        return type(x) is str and x in names
+
+    one_of.names = names  # type: ignore[attr-defined]
+    return one_of
 
 
 def _count(x: Any) -> bool:
@@ -144,6 +154,66 @@ _PLAN = {
 }
 """Each kind's checks as a flat tuple (read once per record, hundreds of thousands of times)."""
 
+# The same checks written out as expressions of one value ``v``, for the compiled fast path below.
+_EXPR: dict[Check, str] = {
+    _number: "(type(v) in _NT and _fin(v))",
+    _positive: "(type(v) in _NT and _fin(v) and v > 0)",
+    _name: "(type(v) is str and (v in _SEEN or _name(v)))",
+    _text: f"(type(v) is str and len(v) <= {MAX_TEXT})",
+    _BOOL: "(type(v) is bool)",
+}
+_ABSENT = object()
+
+
+def _expression(check: Check, env: dict[str, Any]) -> str:
+    if check in _EXPR:
+        return _EXPR[check]
+    if hasattr(check, "inner"):
+        return f"(v is None or {_expression(check.inner, env)})"
+    if hasattr(check, "names"):
+        env[name := f"_names{len(env)}"] = check.names
+        return f"(type(v) is str and v in {name})"
+    env[name := f"_check{len(env)}"] = check
+    return f"{name}(v)"
+
+
+def _compiled(kind: str) -> Callable[[dict], bool]:
+    """Whether a record of ``kind`` passes every field check of :data:`_FIELDS`, as one function
+    written out from them (the loop in :func:`record_problem` costs a shift's logbook seconds; that
+    loop still says what is wrong when this finds something is)."""
+    env: dict[str, Any] = {"_NT": _NUMBER_TYPES, "_fin": math.isfinite, "_SEEN": _NAMES_SEEN, "_name": _name}
+    env["_A"] = _ABSENT
+    lines = [
+        "def ok(rec):",
+        "    v = rec.get('t_unix', _A)",
+        f"    if not (type(v) in _NT and {EARLIEST!r} <= v <= {LATEST!r}):\n        return False",
+        "    v = rec.get('mono', _A)",
+        "    if v is not _A and not (type(v) in _NT and _fin(v) and v >= 0):\n        return False",
+        "    v = rec.get('t', _A)",
+        f"    if v is not _A and not {_EXPR[_text]}:\n        return False",
+    ]
+    for field, check, required in _PLAN[kind]:
+        lines.append(f"    v = rec.get({field!r}, _A)")
+        lines.append(f"    if v is _A:\n        {'return False' if required else 'pass'}")
+        lines.append(f"    elif not {_expression(check, env)}:\n        return False")
+    lines.append("    return True")
+    exec("\n".join(lines), env)  # noqa: S102 - our own text, written from the table above
+    return env["ok"]
+
+
+_FAST = {kind: _compiled(kind) for kind in _PLAN}
+_RANGED: dict[tuple[str, int], tuple[Any, bool]] = {}
+
+
+def _ranged(kind: str, ranges: Mapping[str, tuple[float, float]] | None) -> bool:
+    """Whether ``ranges`` holds a field of ``kind`` (remembered per ranges object: callers pass one)."""
+    if not ranges:
+        return False
+    hit = _RANGED.get((kind, id(ranges)))
+    if hit is None or hit[0] is not ranges:
+        hit = _RANGED[(kind, id(ranges))] = (ranges, any(f in ranges for f in _FIELDS[kind]))
+    return hit[1]
+
 
 def _describe(check: Check) -> str:
     return _WHAT.get(check, "a value of the documented form")
@@ -163,6 +233,9 @@ def record_problem(rec: Any, ranges: Mapping[str, tuple[float, float]] | None = 
     if not isinstance(rec, dict):
         return "not a JSON object"
     kind = rec.get("kind")
+    fast = _FAST.get(kind) if type(kind) is str else None
+    if fast is not None and fast(rec) and not _ranged(kind, ranges):
+        return None  # every field as it should be and none with a range to hold: the common case
     if not isinstance(kind, str) or kind not in _FIELDS:
         return f"kind {str(kind)[:MAX_NAME]!r} is not one of {', '.join(KINDS)}"
     t = rec.get("t_unix")
@@ -188,9 +261,6 @@ def record_problem(rec: Any, ranges: Mapping[str, tuple[float, float]] | None = 
             if not lo <= value <= hi:
                 return f"{kind} field {field!r} is {value:g}, outside {lo:g} to {hi:g}"
     return None
-
-
-_ABSENT = object()
 
 
 def _shown(x: Any) -> str:

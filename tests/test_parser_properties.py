@@ -144,3 +144,32 @@ def test_the_session_never_uses_a_reading_outside_the_limits(value, quantity_nam
     if r.usable and quantity_name == "pressure":
         assert LIMITS["pressure"].low <= r.value <= LIMITS["pressure"].high
         assert s.view(0.0).forecast is not None
+
+
+def _kind_records():
+    """Records of a known kind whose fields are often right and sometimes anything."""
+    from strikeline.drivers.records import _FIELDS
+
+    likely = st.sampled_from(["ok", "lost", "pressure", "voltage", "chamber", "raised", "watch", "typed", "x" * 70])
+    value = json_values | likely | st.floats(1e-3, 1e3) | st.just(1.8e9)
+
+    @st.composite
+    def build(draw):
+        kind = draw(st.sampled_from(KINDS))
+        names = ["t_unix", "mono", "t", *_FIELDS[kind]]
+        fields = draw(st.dictionaries(st.sampled_from(names), value, max_size=len(names)))
+        if draw(st.booleans()):
+            fields["t_unix"] = draw(st.floats(9e8, 8e9) | st.just(1.8e9))
+        return {"kind": kind, **fields}
+
+    return build()
+
+
+@given(_kind_records())
+def test_the_compiled_record_check_agrees_with_the_table(rec):
+    # drivers/records.py writes each kind's field checks out as one function for speed; the loop over
+    # the table stays the reference. Ranges that hold every field with no bound force the loop.
+    from strikeline.drivers.records import _FAST, _FIELDS
+
+    everything = {f: (-math.inf, math.inf) for fields in _FIELDS.values() for f in fields}
+    assert _FAST[rec["kind"]](rec) == (record_problem(rec, everything) is None)
