@@ -50,8 +50,9 @@ class ModbusReader(ReaderThread):
         from pymodbus.exceptions import ConnectionException, ModbusIOException  # loads with the port
 
         _quiet_library_log()
-        # A client closed under a read (stop, or a dropped link) can raise from inside pymodbus.
-        self.PORT_ERRORS = (ConnectionException, OSError, AttributeError, TypeError)
+        # A client closed under a read (stop, or a dropped link) can raise from inside pymodbus, or
+        # from pyserial under it (ValueError: a closed socket's descriptor -1 given to select).
+        self.PORT_ERRORS = (ConnectionException, OSError, AttributeError, TypeError, ValueError)
         self._io_error = ModbusIOException
         super().__init__(spec, emit, on_event, **kw)
         self.blocks = plan_reads(spec.channels)

@@ -280,6 +280,35 @@ def test_rtu_framing_over_a_tcp_gateway():
         dev.close()
 
 
+def test_a_port_closed_under_a_read_is_lost_and_reopened_never_a_dead_thread():
+    # pyserial's socket, closed under a read (a stop, a dropped gateway), raises ValueError from
+    # select on descriptor -1 deep inside pymodbus: the reader must take it as a lost port.
+    dev = ModbusDevice(unit=7, rtu=True)
+    fill(dev)
+    sink = Sink()
+    where = f'transport = "rtu"\ndevice = "socket://127.0.0.1:{dev.port}"'
+    inst = Instruments(profile_for(where).ports, sink.emit, sink.event)
+    reader = inst.readers[0]
+    real, raised = reader._read, []
+
+    def read(client, block):
+        if not raised:
+            raised.append(block)
+            raise ValueError("file descriptor cannot be a negative integer (-1)")
+        return real(client, block)
+
+    reader._read = read
+    inst.start()
+    try:
+        assert wait_for(lambda: raised and reader.stats.reconnects >= 1 and sink.last("chamber") is not None)
+        assert wait_for(lambda: sink.last("chamber").usable)
+        assert any(kind == "lost" for _port, kind, _text in sink.events) and reader.alive
+    finally:
+        inst.stop()
+        dev.close()
+    assert not reader.alive
+
+
 def test_rtu_over_a_serial_line():
     line = NullModem()  # two serial ports and a cable: the device on one end, strikeline on the other
     dev = ModbusDevice(unit=7, serial=line.a)
