@@ -57,9 +57,7 @@ async def test_a_burst_is_one_frame_of_the_latest_values_and_every_reading_is_lo
     app = make_app(gauge_bench(dev), log_path=tmp_path / "burst.jsonl", show_caution=False)
     try:
         async with app.run_test(size=(80, 24)) as pilot:
-            assert await _until(pilot, lambda: any("connected" in e for e in app.events))
-            dev.write(b"P=10.0\n")
-            assert await _until(pilot, lambda: "10.0 Pa" in app.readouts_text())
+            await _showing_ten_pascal(pilot, app, dev)
             frames = app.pacer.frames
             # 300 readings in one write, 10.1 to 40.0 Pa: far faster than a terminal can show them
             burst = [round(10.0 + 0.1 * k, 1) for k in range(1, 301)]
@@ -73,6 +71,13 @@ async def test_a_burst_is_one_frame_of_the_latest_values_and_every_reading_is_lo
             assert [r["indicated"] for r in logged_readings(book.path)][1:] == burst
     finally:
         dev.close()
+
+
+async def _showing_ten_pascal(pilot, app, dev) -> None:
+    """Wait until the gauge's port is open, then send 10.0 Pa and wait until the readouts show it."""
+    assert await _until(pilot, lambda: any("connected" in e for e in app.events))
+    dev.write(b"P=10.0\n")
+    assert await _until(pilot, lambda: "10.0 Pa" in app.readouts_text())
 
 
 async def _until(pilot, condition, timeout: float = 5.0) -> bool:
@@ -133,15 +138,13 @@ async def test_a_paused_screen_is_woken_by_no_reading(tmp_path):
     app = make_app(gauge_bench(dev), log_path=tmp_path / "paused.jsonl", show_caution=False)
     try:
         async with app.run_test(size=(80, 24)) as pilot:
-            assert await _until(pilot, lambda: any("connected" in e for e in app.events))
-            dev.write(b"P=10.0\n")
-            assert await _until(pilot, lambda: "10.0 Pa" in app.readouts_text())
+            await _showing_ten_pascal(pilot, app, dev)
             await pilot.press("space")
             shown = app.readouts_text()
             dev.write(b"P=20.0\nP=30.0\nP=40.0\n")
             book = app.session.logbook
             assert wait_for(lambda: len(logged_readings(book.path)) == 4)  # still logged
-            assert not app.wants(None)  # paused: no reading asks for a frame
+            assert not app.wants()  # paused: no reading asks for a frame
             await pilot.pause()
             assert app.readouts_text() == shown and "PAUSED" in app.query_one("#title").content.plain
             await pilot.press("space")

@@ -14,7 +14,8 @@ from typing import Any
 
 from textual.message import Message
 
-from ..drivers.logbook import Logbook, ReplaySource
+from ..drivers.logbook import Logbook
+from ..drivers.logbook_read import ReplaySource
 from ..drivers.reading import Reading
 from ..profiles.loader import BenchProfile
 from .keys import KEY_HINTS
@@ -77,7 +78,7 @@ def make_app(
 
     def on_reading(r: Reading) -> None:
         note = session.handle(r)  # logged, every one
-        if app_ref and app_ref[0].wants(r):  # only what changes the screen wakes it (tui/pacing.py)
+        if app_ref and app_ref[0].wants():  # only what changes the screen wakes it (tui/pacing.py)
             post(Fresh(time.perf_counter()))
         if note is not None:
             post(Skipped(note))

@@ -246,7 +246,8 @@ class KeyActions:
         try:
             target = check_report_target(str(out), "report")
             rep = write_report(log, target, bench=bench, caution=SAFETY, cores=1)  # no fork beside our threads
-            text, error = f"report written: {rep.path} ({rep.readings} readings, {rep.strikes} marks)", False
+            where = f"{rep.path.name} ({rep.readings} readings, {rep.strikes} marks) in {rep.path.parent}"
+            text, error = f"report written: {where}", False  # the name first: a narrow screen cuts the end
         except (OSError, OutputError) as e:
             text, error = f"report not written: {e}", True
         if self.live():

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import os
 
-from ..drivers.logbook import LogRead, read_logbook
+from ..drivers.logbook_read import LogRead, read_logbook
 from ..model.limits import LIMITS
 
 __all__ = ["RANGES", "read_log", "skipped_text"]

@@ -7,7 +7,7 @@ from array import array
 from collections import Counter, defaultdict
 from typing import Any
 
-from ..drivers.logbook import LogRead
+from ..drivers.logbook_read import LogRead
 
 __all__ = ["STRIKE_COLUMNS", "Summary", "strike_rows", "summarise"]
 

@@ -178,7 +178,7 @@ def write_report(
 
 
 def _first_time(log) -> float | None:
-    from ..drivers.logbook import LogRead, iter_logbook
+    from ..drivers.logbook_read import LogRead, iter_logbook
     from .logread import RANGES
 
     for r in iter_logbook(log, RANGES, LogRead()):

@@ -1,6 +1,6 @@
 """What a shift report shows, gathered from a logbook in one streaming pass (no drawing here).
 
-The logbook is read record by record (:func:`~strikeline.drivers.logbook.iter_logbook`), so an 8 h
+The logbook is read record by record (:func:`~strikeline.drivers.logbook_read.iter_logbook`), so an 8 h
 logbook at 10 Hz never sits in memory as dicts: the time series go into compact arrays, the counts
 into :class:`~strikeline.tui.logsummary.Summary` (the same sums ``strikeline log`` prints), and the
 drawn series are decimated afterwards (each bin keeps its lowest and highest value, so a spike
@@ -16,7 +16,7 @@ from typing import Any
 
 import numpy as np
 
-from ..drivers.logbook import LogRead, iter_logbook
+from ..drivers.logbook_read import LogRead, iter_logbook
 from ..model.bench import Bench
 from ..model.results import LEVELS
 from .logread import RANGES
@@ -77,7 +77,7 @@ def collect(path: str, t_from: float | None = None, t_to: float | None = None, c
     threads of its own, such as the live screen). Raises OSError when it cannot be read."""
     import os
 
-    from ..drivers.logbook import line_spans
+    from ..drivers.logbook_read import line_spans
 
     cores = (os.cpu_count() or 1) if cores is None else cores
     spans = line_spans(path, cores) if cores > 1 and os.path.getsize(path) > BIG else [(0, None, 0)]
@@ -179,9 +179,8 @@ def _add(pair: tuple[array, array], t: float, v: float) -> None:
 
 
 def _reading(raw: dict[str, tuple[array, array]], r: dict[str, Any], t: float) -> None:
-    q = r.get("quantity")
-    name = {"pressure": "pressure", "voltage": "voltage", "current": "current"}.get(q)
-    if name is None:
+    name = r.get("quantity")
+    if name not in ("pressure", "voltage", "current"):  # the quantities the time series draw
         return
     ok = r.get("status") == "ok"
     value = r.get("value") if ok else None
@@ -268,8 +267,8 @@ def curve_data(bench: Bench, pd_seen: np.ndarray, points: int = 400) -> CurveDat
     pd0 = law.no_breakdown_pd() / scale
     pd_min, v_min = law.minimum()
     seen = pd_seen[np.isfinite(pd_seen) & (pd_seen > 0)]
-    lo = max(pd0 * 1.01, min(pd_min / scale / 3, *(seen / 2 if len(seen) else [np.inf])))
-    hi = max(pd_min / scale * 300, *(seen * 2 if len(seen) else [0.0]))
+    lo = max(pd0 * 1.01, np.min(seen / 2, initial=pd_min / scale / 3))
+    hi = np.max(seen * 2, initial=pd_min / scale * 300)
     pd = np.geomspace(lo, hi, points)
     vb, _w = law.voltage(pd * scale)
     notes, upper = [], None
