@@ -8,10 +8,10 @@ Pure and SI: the forecast (:mod:`.forecast`) asks this module, and the law itsel
 from __future__ import annotations
 
 from .alternating import ALTERNATING_UNCERTAINTY
-from .bench import Bench, OperatingPoint
+from .bench import OperatingPoint
 from .results import Alternating, Flag, finite_or_none
 
-__all__ = ["WAVELENGTH_FRACTION", "ac_frequency", "ac_result", "not_applicable"]
+__all__ = ["WAVELENGTH_FRACTION", "ac_result", "not_applicable"]
 
 WAVELENGTH_FRACTION = 0.1
 """A gap longer than this share of the free-space wavelength is no longer a lumped, uniform field
@@ -27,14 +27,6 @@ _REGIME_WORDS = {
     "electrodes each half period",
     "none": "no breakdown at this pd",
 }
-
-
-def ac_frequency(point: OperatingPoint, bench: Bench) -> float | None:
-    """The frequency of the applied voltage (Hz): the point's, else an AC supply's; None for DC."""
-    if point.frequency is not None:
-        return point.frequency
-    s = bench.supply
-    return s.frequency if s is not None and s.mode == "ac" else None
 
 
 def ac_result(law, point: OperatingPoint, rpd: float, scale: float, V: float | None) -> tuple[Alternating, list[Flag]]:
@@ -56,7 +48,8 @@ def ac_result(law, point: OperatingPoint, rpd: float, scale: float, V: float | N
         upper_voltage=finite_or_none(parts["upper"]),
         dc_like_voltage=finite_or_none(parts["dc_like"]),
         dc_voltage=v_dc,
-        turning_pd=None if turning is None else turning[0],
+        turning_reduced_pd=None if turning is None else turning[0],
+        turning_pd=None if turning is None else turning[0] / scale,
         turning_pressure=None if turning is None else turning[0] / scale / point.gap,
         turning_voltage=None if turning is None else turning[1],
         ion_swing_ratio=finite_or_none(parts["ions"]),
@@ -69,7 +62,7 @@ def ac_result(law, point: OperatingPoint, rpd: float, scale: float, V: float | N
 def _flags(r: Alternating, point: OperatingPoint, V: float | None) -> list[Flag]:
     method = (
         "effective field E_rms nu_m/sqrt(nu_m^2 + w^2); volume breakdown nu_i = D_e/Lambda^2 with Lambda = "
-        "(d - 2 a_e)/pi (Lisovskiy & Yegorenkov 1998, from memory); DC-like where the ions cross within a half "
+        "(d - 2 a_e)/pi ([lisovskiy-yegorenkov-1998], from memory); DC-like where the ions cross within a half "
         f"period; +/-{ALTERNATING_UNCERTAINTY:.0%} for the swarm data"
     )
     f = _hz(r.frequency)

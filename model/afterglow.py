@@ -51,7 +51,7 @@ def ambipolar_diffusion(mu_i: float, Te_eV: float, Ti_eV: float) -> float:
     """Ambipolar diffusion coefficient D_a = D_i (1 + T_e/T_i) = mu_i (T_e + T_i) [eV] , m^2/s.
 
     The limit of D_a = (mu_i D_e + mu_e D_i)/(mu_i + mu_e) for mu_e >> mu_i, with the
-    Einstein relation D = mu k T / e (Lieberman & Lichtenberg, sec. 5.2, from memory).
+    Einstein relation D = mu k T / e ([lieberman-lichtenberg-2005] sec. 5.2, from memory).
 
     >>> round(ambipolar_diffusion(0.1, 2.0, 0.03), 6)
     0.203

@@ -9,28 +9,30 @@ voltage is the amplitude (peak) across the gap unless a name says otherwise.
 - Oscillation: a charge of DC mobility mu and collision frequency nu swings with amplitude
   a = mu nu E_0 / (w sqrt(nu^2 + w^2)) (Drude's complex mobility), E_0 = sqrt(2) E_rms.
 - Volume breakdown: ionisation balances diffusion, (alpha - eta)(E_eff) mu_e E_eff = D_e / Lambda^2
-  with D_e = mu_e eps_k, over a diffusion length the electrons' swing shrinks, Lambda =
-  (d - 2 a_e)/pi (Lisovskiy & Yegorenkov, J. Phys. D 31, 3349 (1998), from memory). mu_e cancels
-  from the balance but sets the swing. In the reduced effective field u = E_eff/p it is explicit:
-      pd(u) = pi sqrt(eps_k / ((a - e)(u) u)) / (1 - rho(u)),   rho = 2 a_e / d = 2 sqrt(2) mu_e p u / (w d)
-      V_0(u) = sqrt(2) u sqrt((c pd)^2 + (w d)^2) / c
+  with D_e = mu_e eps_k, over the diffusion length of a cylinder of the electrodes' radius R whose
+  height the electrons' swing shrinks, 1/Lambda^2 = (pi/(d - 2 a_e))^2 + (j01/R)^2
+  ([lisovskiy-yegorenkov-1998], from memory; j01 = 2.405, the first zero of J0). mu_e cancels from
+  the balance but sets the swing. In the reduced effective field u = E_eff/p it is explicit:
+      pd(u) = sqrt(eps_k / ((a - e)(u) u)) sqrt((pi/(1 - rho))^2 + (j01 d/R)^2),
+      rho = 2 a_e / d = 2 sqrt(2) mu_e p u / (w d),   V_0(u) = sqrt(2) u sqrt((c pd)^2 + (w d)^2) / c
   (a, e = alpha/p, eta/p). Traced over u, pd falls to a turning point and rises again as rho -> 1:
   the lower branch is breakdown, the upper branch the voltage above which electrons are swept onto
   the electrodes each half period. Below the turning point's pressure no volume breakdown exists.
   gamma plays no part here: the electrons are made and lost in the volume (our statement of the
   model's reach; at low pressure secondary electrons do take part in practice).
 - DC-like limit: where the ions swing across the gap within a half period (2 a_i >= d, ion mobility
-  mu_i = K0 p0 / p), every half cycle is a DC breakdown: Paschen's law with gamma, at the peak
-  voltage. Where fewer ions reach the cathode we take gamma times w = 2 a_i/d (our assumption). As
-  a_i grows with the voltage, Paschen's law with gamma w is explicit in w: rpd(w) = ln(1 + 1/(gamma
-  w)) exp(B/(k w))/A and V = w k rpd, k = w d/(2 K0 p0); so the model goes over to DC without a step.
-  The breakdown voltage is the lower of the
+  mu_i = K0 p0 / p), every half cycle is a DC breakdown: the DC law with gamma, at the peak
+  voltage. Where fewer ions reach the cathode we take gamma times w = 2 a_i/d (our assumption). At
+  the breakdown field y = E/p the ions' reach is w = y/k, k = w d/(2 K0 p0), so the criterion with
+  gamma w stays explicit in y and the model goes over to DC without a step. Where fewer than
+  :data:`IONS_COUNTED` of the gap's ions reach the cathode each half period, the gamma mechanism is
+  not counted (ours): its voltage would rest on ions that never arrive. The breakdown voltage is the lower of the
   two mechanisms, and the regime says which one: "dc-like", "intermediate" (gamma reduced),
   "rf-volume", "drift-limited" (volume breakdown with the swing over half the gap), "none".
 
-A mixture mixes alpha and eta as the DC law does; its nu_m/p and eps_k by mole fraction and its
-electron mobility by Blanc's law (1/mu = sum x_i/mu_i, common practice); its ions are the largest
-component's (our assumption).
+A fill's alpha, eta and gamma are its DC law's (:class:`strikeline.model.breakdown.Law`); its nu_m/p
+and eps_k by mole fraction and its electron mobility by Blanc's law (1/mu = sum x_i/mu_i, common
+practice); its ions are the largest component's (our assumption).
 """
 
 from __future__ import annotations
@@ -44,10 +46,11 @@ from numpy.typing import ArrayLike, NDArray
 
 from . import constants as _c
 from . import mixture as mx
-from .bench import Mixture
+from .composition import Composition
 
 __all__ = [
     "ALTERNATING_UNCERTAINTY",
+    "IONS_COUNTED",
     "REGIMES",
     "AlternatingLaw",
     "drift_amplitude",
@@ -61,6 +64,11 @@ less (our judgement)."""
 REGIMES = ("dc-like", "intermediate", "rf-volume", "drift-limited", "none")
 DRIFT_LIMITED = 0.5
 """rho = 2 a_e / d above which volume breakdown is called drift-limited (ours)."""
+IONS_COUNTED = 0.1
+"""The least share of the gap the ions must cross in a half period for the gamma (DC-like) mechanism to
+count (ours)."""
+BESSEL_J01 = 2.404825557695773
+"""First zero of J0: the radial part of a cylinder's diffusion length (scipy.special.jn_zeros(0, 1))."""
 _P0 = 760.0 * _c.torr
 """Pa: the pressure reduced ion mobilities K0 are quoted at."""
 _GRID = 1024
@@ -95,13 +103,15 @@ def drift_amplitude(E_0: ArrayLike, mobility: ArrayLike, nu: ArrayLike, omega: f
 class AlternatingLaw:
     """Breakdown of one gas fill across one gap at one frequency (the curve depends on w d)."""
 
-    mixture: Mixture
+    fill: Composition
     frequency: float
     """Hz."""
     gap: float
     """m."""
     dc: object
-    """The same fill's DC law (:class:`strikeline.model.breakdown.PaschenLaw` or ``MixtureLaw``)."""
+    """The same fill's DC law (:class:`strikeline.model.breakdown.Law`)."""
+    radius: float | None = None
+    """The electrodes' radius, m (None: no radial loss, electrodes much wider than the gap)."""
 
     @property
     def reference_temperature(self) -> float:
@@ -122,14 +132,14 @@ class AlternatingLaw:
     @cached_property
     def gas_data(self) -> tuple[float, float, float, float]:
         """(nu_m/p in 1/(s Pa), mu_e p in m^2 Pa/(V s), eps_k in V, ion K0 in m^2/(V s)) of the fill."""
-        parts = self.mixture.components
+        parts = self.fill.components
         for c in parts:
             if c.gas.electron_mobility_p is None or c.gas.characteristic_energy is None:
                 raise ValueError(f"{c.gas.key} has no electron mobility or characteristic energy for an AC forecast")
         c_m = math.fsum(c.fraction * c.gas.electron_collision_per_Pa for c in parts)
         mu_p = 1.0 / math.fsum(c.fraction / c.gas.electron_mobility_p for c in parts)
         eps = math.fsum(c.fraction * c.gas.characteristic_energy for c in parts)
-        return c_m, mu_p, eps, self.mixture.main.ion_mobility
+        return c_m, mu_p, eps, self.fill.main.ion_mobility
 
     # -- the volume-breakdown curve, traced over the reduced effective field u -----------
 
@@ -146,10 +156,11 @@ class AlternatingLaw:
         """pd (Pa m) of the volume criterion at reduced effective field u; NaN where it has none."""
         u = np.asarray(u, dtype=float)
         _c_m, _mu, eps, _k0 = self.gas_data
-        net = mx.mixture_ionisation(self.mixture, u) - mx.mixture_attachment(self.mixture, u)
+        net = self.dc.a(u) - self.dc.e(u)
         rho = self._rho(u)
+        radial = 0.0 if self.radius is None else (BESSEL_J01 * self.gap / self.radius) ** 2
         with np.errstate(divide="ignore", invalid="ignore"):
-            pd = math.pi * np.sqrt(eps / (net * u)) / (1.0 - rho)
+            pd = np.sqrt(eps / (net * u)) * np.sqrt((math.pi / (1.0 - rho)) ** 2 + radial)
         return np.where((net > 0) & (rho < 1.0), pd, np.nan)
 
     def _v(self, u, pd):
@@ -162,8 +173,7 @@ class AlternatingLaw:
         each with pd ascending; None where the frequency is too low for any volume breakdown."""
         from .breakdown import trace
 
-        bs = [c.gas.constants.B for c in self.mixture.components]
-        lo, hi = min(bs) / 60.0, min(1e6 * max(bs), self.u_max * (1 - 1e-12))
+        lo, hi = self.dc.y_range[0], min(self.dc.y_range[1], self.u_max * (1 - 1e-12))
         if not lo < hi:
             return None
         a, b = lo, hi
@@ -213,30 +223,23 @@ class AlternatingLaw:
 
     @cached_property
     def _gamma_table(self) -> tuple[NDArray, NDArray]:
-        """(rpd ascending, V) of the DC mechanism where fewer ions reach the cathode. With w = 2 a_i/d
-        < 1 and gamma w in Paschen's law, V = w k rpd makes it explicit in w:
-        rpd(w) = ln(1 + 1/(gamma w)) exp(B / (k w)) / A (the effective A, B of the fill)."""
+        """(rpd ascending, V) of the DC mechanism where fewer ions reach the cathode: the DC criterion
+        with gamma times the ions' reach w = y/k, traced from w = 1 (where the ions just cross, and it
+        meets the DC law) down to w = :data:`IONS_COUNTED`."""
         from .breakdown import trace
 
-        c, g, k = self.effective_constants, self.dc.gamma, self._k
+        dc, k = self.dc, self._k
 
-        def rpd_of(w):
-            with np.errstate(over="ignore"):
-                return np.log1p(1.0 / (g * w)) * np.exp(c.B / (k * w)) / c.A
+        def rpd_of(y):
+            return mx.pd_at(dc.a(y), dc.e(y), dc.g(y) * (y / k))
 
-        w, rpd = trace(0.0, math.log(1e-30), rpd_of)
-        if rpd.size == 0:  # a low frequency: the ions always cross, no such branch below _PD_TOP
-            return rpd, rpd
-        v = w * k * rpd
-        # For a mixture the effective A, B only stand in for the DC law: scale the branch so it meets the
-        # DC law where the ions' swing spans the gap (for a pure gas the factor is 1).
-        v_dc = float(self.dc.voltage(rpd[0])[0])
-        return rpd, v * (v_dc / v[0] if math.isfinite(v_dc) and v[0] > 0 else 1.0)
+        y, rpd = trace(math.log(k), math.log(IONS_COUNTED * k), rpd_of)
+        return rpd, y * rpd
 
     def _dc_like(self, rpd: NDArray) -> NDArray:
         """V of the DC mechanism with gamma reduced by the ions' reach. The ions cross within a half
         period left of the reduced branch's start (the DC breakdown field E/p falls as pd grows, so the
-        ions' swing at it does too): the DC law there, the reduced branch beyond."""
+        ions' swing at it does too): the DC law there, the reduced branch beyond, nothing past it."""
         shape = np.shape(rpd)
         rpd = np.atleast_1d(np.asarray(rpd, dtype=float))
         pd, v = self._gamma_table
@@ -333,10 +336,11 @@ class AlternatingLaw:
 
     def alpha(self, E_0: float, p: float) -> float:
         """alpha (1/m) at the effective field of an amplitude E_0 (V/m) and reduced pressure p (Pa)."""
-        return float(p * mx.mixture_ionisation(self.mixture, self._e_eff(E_0, p) / p))
+        return float(p * self.dc.a(self._e_eff(E_0, p) / p))
 
     def eta(self, E_0: float, p: float) -> float:
-        return float(p * mx.mixture_attachment(self.mixture, self._e_eff(E_0, p) / p))
+        y = self._e_eff(E_0, p) / p
+        return float(p * self.dc.e(y, p))
 
     def swing(self, E_0: float, p: float) -> tuple[float, float]:
         """(electron swing, ion swing) in m for an amplitude E_0 (V/m) at reduced pressure p (Pa)."""

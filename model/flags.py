@@ -1,7 +1,9 @@
-"""Judgements on the breakdown itself: validity of the law, the bench curve, margin, streamers.
+"""Judgements on the breakdown itself: the field, the data behind the law, the bench curve, margin,
+streamers, mixtures.
 
 Each function returns a list of :class:`~strikeline.model.results.Flag`, every one with its
-level, a one-line reason carrying the numbers, and the method behind it. SI in.
+level, a one-line reason carrying the numbers, and the method behind it (sources as [keys] of the
+bibliography). SI in.
 """
 
 from __future__ import annotations
@@ -10,15 +12,22 @@ import math
 from collections.abc import Sequence
 
 from . import constants as _c
-from .bench import BenchCurve, Component, Gas, TownsendConstants, UniformFieldLaw
+from .bench import Bench, BenchCurve
+from .composition import Composition
+from .gas import Gas, UniformFieldLaw
+from .ionisation import TD_PER_V_PER_PA_M
 from .results import Flag
 
 __all__ = [
     "MIXTURE_UNCERTAINTY",
+    "OUTSIDE_DATA_UNCERTAINTY",
     "RAETHER_ALPHA_D",
     "STREAMER_CHECK_PD",
     "STREAMER_PD",
+    "TD_PER_V_PER_PA_M",
     "curve_flags",
+    "data_flags",
+    "field_flags",
     "margin_flags",
     "mixture_flags",
     "no_breakdown_flag",
@@ -30,35 +39,106 @@ TORR_CM = _c.torr * _c.centi
 """1 Torr cm in Pa m."""
 
 RAETHER_ALPHA_D = math.log(1e8)
-"""alpha d at which an avalanche of ~1e8 electrons turns into a streamer (Raether-Meek)."""
+"""alpha d at which an avalanche of ~1e8 electrons turns into a streamer ([raether-1964], [meek-craggs-1953])."""
 STREAMER_PD = 200 * TORR_CM
 """Above about 200 Torr cm breakdown proceeds by streamers, not Townsend generations
-(Raizer 1991, ch. 12, from memory)."""
+([raizer-1991] ch. 12, from memory)."""
 STREAMER_CHECK_PD = STREAMER_PD / 10
 """Below this (20 Torr cm, our choice: a tenth of the streamer regime) the Townsend picture
 holds and alpha d at the applied voltage says nothing about streamers: no flag is raised."""
 
-_CURVE_METHOD = "least-squares fit of Paschen's law to the bench's strike marks"
+_CURVE_METHOD = (
+    "least-squares fit of the fill's own law (ionisation, field and gamma scaled) to the bench's strike marks"
+)
 MIXTURE_UNCERTAINTY = 0.10
-"""Added to the constants' relative uncertainty for a mixture or an attaching gas: linear mixing
-ignores the electron energy distribution the mixture sets, and the attachment data are borrowed
-from air (our judgement)."""
-TD_PER_V_PER_PA_M = 1.380649e-23 * 273.15 / 1e-21
-"""E/N in Td per E/p in V/(Pa m) at 0 C (N = p / k T)."""
+"""Added to the data's relative uncertainty for a mixture: linear mixing ignores the electron energy
+distribution the mixture sets (our judgement)."""
+OUTSIDE_DATA_UNCERTAINTY = 0.25
+"""Added where the breakdown field lies outside every published segment of a gas's ionisation law:
+the law is extrapolated there (our judgement)."""
+
+
+def field_flags(bench: Bench, alternating: bool, hall: float | None, p_eff: float, pressure: float) -> list[Flag]:
+    """A magnetised cathode: the crossed-field effective pressure applied (DC), or not (AC)."""
+    if alternating and bench.magnetic_field is not None:
+        return [
+            Flag(
+                "crossed_field_not_applied",
+                "watch",
+                "magnetised cathode: the crossed-field effective pressure is a DC treatment and is not applied to "
+                "this alternating supply; the magnet confines electrons, so breakdown is likely lower than forecast",
+                "effective-pressure treatment of crossed E x B fields, DC only (our choice)",
+            )
+        ]
+    if hall is None:
+        return []
+    return [
+        Flag(
+            "crossed_field",
+            "ok",
+            f"magnetised cathode ({bench.magnetic_field * 1e3:.3g} mT): omega_ce/nu_m = {hall:.3g}, effective "
+            f"pressure {p_eff:.3g} Pa for {pressure:.3g} Pa; an approximation that treats the whole gap "
+            "as if it sat in the cathode's field",
+            "effective-pressure treatment of crossed E x B fields ([blevin-haydon-1958]; [raizer-1991] sec. 4.6, "
+            "from memory)",
+        )
+    ]
+
+
+def data_flags(fill: Composition, uncovered: Sequence[Gas], y: float | None, sources: str) -> list[Flag]:
+    """What the law rests on here: ionisation data extrapolated beyond every published segment, a default
+    curve not checked against a measured minimum, a gas that attaches without attachment data."""
+    flags: list[Flag] = []
+    if uncovered and y is not None:
+        ranges = ", ".join(
+            f"{g.key} {g.ionisation.low * TD_PER_V_PER_PA_M:.0f}-{g.ionisation.high * TD_PER_V_PER_PA_M:.0f} Td"
+            for g in uncovered
+        )
+        flags.append(
+            Flag(
+                "outside_fitted_range",
+                "watch",
+                f"breakdown here needs E/N {y * TD_PER_V_PER_PA_M:.3g} Td, outside the published ionisation data "
+                f"({ranges}): extrapolated, the band widened by {OUTSIDE_DATA_UNCERTAINTY:.0%}",
+                sources,
+            )
+        )
+    for g in fill.gases:
+        if not g.minimum_checked:
+            flags.append(
+                Flag(
+                    "curve_unchecked",
+                    "ok",
+                    f"{g.key}'s default curve is not checked against a measured minimum sparking potential here: "
+                    "record strikes and fit this bench's own curve (strikeline fit)",
+                    g.yield_.source,
+                )
+            )
+        if g.attaches_unmodelled:
+            flags.append(
+                Flag(
+                    "attachment_not_modelled",
+                    "watch",
+                    f"{g.key} attaches electrons but no attachment data are held here: at high pd it breaks down "
+                    "above this forecast",
+                    "electron attachment left out for lack of data (our statement)",
+                )
+            )
+    return flags
 
 
 def mixture_flags(
     composition: str,
-    components: Sequence[Component],
+    fill: Composition,
     e_over_p: float | None,
     critical: float | None,
     penning: Sequence[tuple[Gas, Gas]],
     assumptions: Sequence[str],
 ) -> list[Flag]:
-    """What a mixture (or an attaching gas) adds: the mixing rule in use, Penning pairs, the
-    attachment limit, and gases whose data are used outside their fitted E/p range."""
+    """What a mixture or an attaching gas adds: the mixing rule in use, Penning pairs, the attachment
+    limit."""
     flags: list[Flag] = []
-    if len(components) > 1:
+    if not fill.pure:
         flags.append(
             Flag(
                 "linear_mixing",
@@ -76,8 +156,8 @@ def mixture_flags(
                 f"{big.key} with {small.key} is a Penning mixture: {big.key} metastables "
                 f"({big.metastable_energy:g} eV) ionise {small.key} ({small.ionisation_energy:g} eV), so it breaks "
                 "down well below this forecast; record strikes and fit this bench's own curve (strikeline fit)",
-                "Penning ionisation: a metastable level above the other gas's ionisation energy "
-                "(NIST levels, from memory)",
+                "Penning ionisation: a metastable level above the other gas's ionisation energy ([nist-asd], from "
+                "memory)",
             )
         )
     if critical is not None:
@@ -97,35 +177,18 @@ def mixture_flags(
                 "Townsend criterion with attachment, gamma alpha/(alpha - eta) (exp((alpha - eta) d) - 1) = 1",
             )
         )
-    if e_over_p is not None:
-        outside = [c.gas for c in components if c.fraction >= 0.05 and not _inside(c.gas, e_over_p)]
-        if outside:
-            flags.append(
-                Flag(
-                    "outside_fitted_range",
-                    "watch",
-                    f"E/p at breakdown {e_over_p:.3g} V/(Pa m) is outside the range fitted for "
-                    f"{', '.join(g.key for g in outside)}: breakdown voltage extrapolated",
-                    "; ".join(g.constants.source for g in outside),
-                )
-            )
     return flags
 
 
-def _inside(gas: Gas, y: float) -> bool:
-    low = gas.low_field.E_over_p_low if gas.low_field is not None else gas.constants.E_over_p_low
-    return low <= y <= gas.constants.E_over_p_high
-
-
 def no_breakdown_flag(rpd: float, pd0: float, raise_to: float) -> Flag:
-    """No voltage breaks the gap down: ``rpd`` (Pa m) is at or left of the asymptote ``pd0``;
-    ``raise_to`` is the pressure (Pa) above which this gap can break down."""
+    """No voltage breaks the gap down: reduced pd ``rpd`` (Pa m) is at or left of the curve's end
+    ``pd0``; ``raise_to`` is the pressure (Pa) above which this gap can break down."""
     return Flag(
         "no_breakdown",
         "watch",
-        f"pd {rpd:.3g} Pa m is at or left of the asymptote {pd0:.3g} Pa m: "
+        f"reduced pd {rpd:.3g} Pa m is at or left of the curve's left end {pd0:.3g} Pa m: "
         f"no voltage breaks this gap down; raise the pressure above {raise_to:.3g} Pa",
-        "Paschen's law, Townsend criterion",
+        "Townsend criterion with the gas's ionisation and gamma",
     )
 
 
@@ -133,34 +196,18 @@ def validity_flags(
     rpd: float,
     vb: float | None,
     weight: float,
-    e_over_p: float | None,
-    raise_to: float,
     pd0: float,
-    c: TownsendConstants,
+    raise_to: float,
     law: UniformFieldLaw | None,
+    T_ref: float,
 ) -> list[Flag]:
-    """Whether the law behind V_b holds at reduced pd ``rpd`` (Pa m): no breakdown at all, E/p
-    outside the constants' fitted range, or the empirical air law in use or beyond its range.
-
-    ``raise_to`` is the pressure (Pa) above which this gap can break down, ``pd0`` the
-    asymptote (Pa m), ``weight`` the uniform-field law's share of V_b.
-    """
+    """Whether anything breaks the gap down at reduced pd ``rpd`` (Pa m), and whether the empirical air
+    law is in use or beyond its range (``weight`` its share of V_b)."""
     flags: list[Flag] = []
     if vb is None:
         flags.append(no_breakdown_flag(rpd, pd0, raise_to))
-    elif weight < 1 and e_over_p is not None and not (c.E_over_p_low <= e_over_p <= c.E_over_p_high):
-        flags.append(
-            Flag(
-                "outside_fitted_range",
-                "watch",
-                f"E/p at breakdown {e_over_p:.3g} V/(Pa m) is outside the "
-                f"{c.E_over_p_low:.3g} to {c.E_over_p_high:.3g} V/(Pa m) "
-                "the A, B pair was fitted over: breakdown voltage extrapolated",
-                c.source,
-            )
-        )
     if law is not None and weight > 0:
-        x = rpd * (law.reference_temperature / c.reference_temperature) / law.reference_pressure
+        x = rpd * (law.reference_temperature / T_ref) / law.reference_pressure
         if x > law.valid_to:
             flags.append(
                 Flag(
@@ -177,7 +224,7 @@ def validity_flags(
                     "uniform_field_law",
                     "ok",
                     f"delta d = {x / _c.centi:.3g} cm: the empirical uniform-field law for air is used "
-                    f"({'blended with Paschen' if weight < 1 else 'constant A, B over-predict here'})",
+                    f"({'blended with the Townsend law' if weight < 1 else 'alone'})",
                     law.source,
                 )
             )
@@ -191,7 +238,7 @@ def curve_flags(cv: BenchCurve, rpd: float) -> list[Flag]:
             "bench_curve",
             "ok",
             f"using this bench's curve (fitted {cv.fitted_on} to {cv.n_points} strikes, rms {cv.rms_residual:.0f} V) "
-            "in place of the textbook constants",
+            "in place of the default one",
             _CURVE_METHOD,
         )
     ]
@@ -200,8 +247,8 @@ def curve_flags(cv: BenchCurve, rpd: float) -> list[Flag]:
             Flag(
                 "outside_fitted_range",
                 "watch",
-                f"pd {rpd:.3g} Pa m is outside the {cv.pd_low:.3g} to {cv.pd_high:.3g} Pa m the bench curve was fitted "
-                "over: extrapolated; record strikes here",
+                f"reduced pd {rpd:.3g} Pa m is outside the {cv.pd_low:.3g} to {cv.pd_high:.3g} Pa m the bench curve "
+                "was fitted over: extrapolated; record strikes here",
                 _CURVE_METHOD,
             )
         )
@@ -220,14 +267,11 @@ def margin_flags(
     if u is None:
         method = "bench curve and its 95 % prediction band"
     elif law == "paschen":
-        method = f"Paschen's law; V_b band from the gamma range and +/-{u:.0%} for the constants"
+        method = f"Townsend criterion with the gas's ionisation and gamma; V_b band from the gamma range and +/-{u:.0%}"
     elif law == "alternating":
         method = f"breakdown in an alternating field (model/alternating.py); V_b band +/-{u:.0%}"
     elif law == "mixture":
-        method = (
-            f"Townsend criterion with attachment, linear mixing; V_b band from the gamma range and +/-{u:.0%} "
-            "for the constants and the mixing"
-        )
+        method = f"Townsend criterion with attachment, linear mixing; V_b band from the gamma range and +/-{u:.0%}"
     else:
         method = f"uniform-field law for air, +/-{u:.0%}"
     lo, hi = band
@@ -265,8 +309,12 @@ def margin_flags(
 
 
 def streamer_flags(V: float, vb: float | None, ad: float, rpd: float, weight: float) -> list[Flag]:
-    """Spark or streamer risk at high pd: the Raether-Meek criterion on alpha d at ``V``."""
-    method = "Raether-Meek criterion: an avalanche of ~1e8 electrons (alpha d ~ 18-20) becomes a streamer"
+    """Spark or streamer risk at high pd: the Raether-Meek criterion on alpha d (ionisation, before
+    attachment) at ``V``."""
+    method = (
+        "Raether-Meek criterion: an avalanche of ~1e8 electrons (alpha d ~ 18-20) becomes a streamer "
+        "([raether-1964], [meek-craggs-1953])"
+    )
     if ad >= RAETHER_ALPHA_D:
         return [
             Flag(
@@ -282,9 +330,9 @@ def streamer_flags(V: float, vb: float | None, ad: float, rpd: float, weight: fl
             Flag(
                 "spark",
                 "danger",
-                f"pd {rpd:.3g} Pa m is in the streamer regime: breakdown "
+                f"reduced pd {rpd:.3g} Pa m is in the streamer regime: breakdown "
                 "here is a spark channel that a low-impedance supply turns into an arc, not a glow",
-                method + "; streamer regime above ~200 Torr cm (from memory)",
+                method + "; streamer regime above ~200 Torr cm ([raizer-1991], from memory)",
             )
         ]
     if ad >= 0.75 * RAETHER_ALPHA_D:

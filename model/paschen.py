@@ -1,15 +1,16 @@
-"""Paschen breakdown: V_b(pd), its minimum, both inverse branches, and the air law.
+"""Paschen's law in its closed form: the textbook view of a breakdown law with one A, B pair and a
+constant gamma (the law a gas's data reduce to in the classic tables; the tool's own curves come from
+:mod:`.breakdown`, which is exactly this law for one exp segment and a constant gamma).
 
-SI throughout: ``pd`` in Pa m at the reference gas density of the constants (see
-:func:`reduced_pd`), A in 1/(Pa m), B in V/(Pa m), voltages in V. Every function is
-vectorised over numpy arrays.
+SI throughout: ``pd`` in Pa m at the reference gas density of the constants, A in 1/(Pa m), B in
+V/(Pa m), voltages in V. Every function is vectorised over numpy arrays.
 
 Townsend's criterion gamma (exp(alpha d) - 1) = 1 with alpha = A p exp(-B p/E) and
 E = V/d gives Paschen's law
 
     V_b = B pd / (ln(A pd) - ln(ln(1 + 1/gamma)))
 
-(e.g. Raizer, *Gas Discharge Physics* (1991), eq. 7.4; arXiv:1612.07170 eq. 1). The
+([raizer-1991] eq. 7.4). The
 denominator falls to zero at pd_0 = ln(1 + 1/gamma)/A: at or below it no voltage breaks
 the gap down (the law gives a negative or infinite number, reported here as NaN).
 """
@@ -21,36 +22,16 @@ import math
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from .bench import TownsendConstants, UniformFieldLaw
 from .townsend import breakdown_alpha_d
 
 __all__ = [
-    "TownsendConstants",
-    "UniformFieldLaw",
     "branch",
     "breakdown_E_over_p",
     "breakdown_voltage",
-    "breakdown_voltage_with_law",
     "inverse_pd",
-    "inverse_pd_with_law",
     "minimum",
     "no_breakdown_pd",
-    "reduced_pd",
-    "uniform_field_voltage",
 ]
-
-
-def reduced_pd(p: ArrayLike, d: ArrayLike, T: ArrayLike, T_ref: float) -> NDArray[np.float64]:
-    """pd scaled to the gas density of the constants: p d (T_ref / T), Pa m.
-
-    Breakdown depends on the number of molecules in the gap, N d; A and B are tabulated
-    for pressures at ``T_ref``, so a hotter gas at the same pressure behaves like a
-    lower pressure (p in Pa, d in m, T and T_ref in K).
-
-    >>> float(reduced_pd(100.0, 0.01, 546.3, 273.15))
-    0.5
-    """
-    return np.asarray(p, dtype=float) * np.asarray(d, dtype=float) * (T_ref / np.asarray(T, dtype=float))
 
 
 def no_breakdown_pd(A: float, gamma: float) -> float:
@@ -165,83 +146,4 @@ def inverse_pd(V: ArrayLike, A: float, B: float, gamma: float) -> tuple[NDArray,
         right = np.where(ok, K * np.exp(u_right) / A, np.nan)
     if left.ndim == 0:
         return left[()], right[()]
-    return left, right
-
-
-def uniform_field_voltage(x: ArrayLike, law: UniformFieldLaw) -> NDArray[np.float64]:
-    """The empirical air law, V_b = a x + b sqrt(x) in V, x = delta d in m.
-
-    >>> law = UniformFieldLaw(24.22e5, 6.08e4, 101325.0, 293.0, 5e-5, 2e-4, 0.1, "")
-    >>> round(float(uniform_field_voltage(0.01, law)))   # 1 cm of air at 1 atm, 20 C
-    30300
-    """
-    x = np.asarray(x, dtype=float)
-    return law.a * x + law.b * np.sqrt(x)
-
-
-def _law_x(pd: NDArray, T_ref: float, law: UniformFieldLaw) -> NDArray:
-    # pd is reduced to T_ref; delta d re-references it to the law's own p_ref, T_ref.
-    return pd * (law.reference_temperature / T_ref) / law.reference_pressure
-
-
-def _law_weight(x: NDArray, law: UniformFieldLaw) -> NDArray:
-    """Smoothstep in ln x from 0 at blend_from to 1 at blend_to."""
-    t = np.clip(np.log(x / law.blend_from) / math.log(law.blend_to / law.blend_from), 0.0, 1.0)
-    return t * t * (3.0 - 2.0 * t)
-
-
-def breakdown_voltage_with_law(
-    pd: ArrayLike,
-    c: TownsendConstants,
-    gamma: float,
-    law: UniformFieldLaw | None,
-) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
-    """V_b (V) with the high-pd empirical law blended in where one is given.
-
-    Returns (V_b, w) where w in [0, 1] is the weight of the empirical law at each pd
-    (0: Paschen's law alone, 1: the empirical law alone). Without a law, w is 0.
-    """
-    pd = np.asarray(pd, dtype=float)
-    v = breakdown_voltage(pd, c.A, c.B, gamma)
-    if law is None:
-        return v, np.zeros_like(v, dtype=float)
-    x = _law_x(pd, c.reference_temperature, law)
-    w = _law_weight(x, law)
-    mixed = (1.0 - w) * v + w * uniform_field_voltage(x, law)
-    return np.where(w > 0, mixed, v), w
-
-
-def inverse_pd_with_law(
-    V: ArrayLike, c: TownsendConstants, gamma: float, law: UniformFieldLaw | None
-) -> tuple[NDArray, NDArray]:
-    """Both pd (Pa m) where :func:`breakdown_voltage_with_law` reaches V.
-
-    The left branch lies far below the law's range and is Paschen's alone; on the
-    right branch the blended curve is monotonic and lies between the two laws, so its
-    root lies between their closed-form roots and is bracketed by bisection in ln pd.
-    """
-    left, right = inverse_pd(V, c.A, c.B, gamma)
-    if law is None:
-        return left, right
-    V = np.asarray(V, dtype=float)
-    # Closed-form root of a x + b sqrt(x) = V for x, then back to reduced pd.
-    s = (-law.b + np.sqrt(law.b**2 + 4.0 * law.a * V)) / (2.0 * law.a)
-    pd_law = s * s * law.reference_pressure * c.reference_temperature / law.reference_temperature
-    lo = np.fmin(right, pd_law)
-    hi = np.fmax(right, pd_law)
-    need = np.isfinite(right) & (
-        _law_weight(_law_x(np.where(np.isfinite(hi), hi, 1.0), c.reference_temperature, law), law) > 0
-    )
-    if np.any(need):
-        a = np.log(np.where(need, lo, 1.0))
-        b = np.log(np.where(need, hi, 1.0))
-        for _ in range(60):
-            mid = 0.5 * (a + b)
-            vm, _w = breakdown_voltage_with_law(np.exp(mid), c, gamma, law)
-            below = vm < V
-            a = np.where(below, mid, a)
-            b = np.where(below, b, mid)
-        right = np.where(need, np.exp(0.5 * (a + b)), right)
-    if np.ndim(right) == 0:
-        return left, right[()]
     return left, right

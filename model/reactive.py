@@ -21,7 +21,8 @@ from collections.abc import Mapping
 from dataclasses import dataclass
 
 from . import constants as _c
-from .bench import Film, Gas
+from .bench import Bench, OperatingPoint
+from .gas import Film, Gas
 from .results import Flag
 
 __all__ = [
@@ -33,6 +34,7 @@ __all__ = [
     "TargetMode",
     "charging_flags",
     "charging_time",
+    "reactive_results",
     "target_flags",
     "target_mode",
 ]
@@ -74,10 +76,8 @@ def target_mode(pressure: float, flows: Mapping[Gas, float], speed: float) -> Ta
     """The target mode at total pressure ``pressure`` (Pa) with ``flows`` (Pa m^3/s) by gas and
     pumping speed ``speed`` (m^3/s); None without a reactive gas flowing.
 
-    >>> from strikeline.model.bench import Gas, TownsendConstants
-    >>> c = TownsendConstants(1.0, 1.0, 1.0, 2.0, 273.15, "")
-    >>> ar = Gas("argon", "Ar", c, None, 15.76, 0.04, 1.6e-4, "", 5e9, True)
-    >>> o2 = Gas("oxygen", "O2", c, None, 12.07, 0.032, 2.2e-4, "", 4e9, False, reactive=True)
+    >>> from strikeline.profiles.gasdata import find_gas
+    >>> ar, o2 = find_gas("argon"), find_gas("oxygen")
     >>> m = target_mode(0.45, {ar: 0.1, o2: 0.02}, 0.25)   # expected Ar 0.4 Pa, O2 0.08 Pa
     >>> round(m.measured, 3), round(m.consumed, 3), m.mode
     (0.05, 0.375, 'transition')
@@ -229,3 +229,33 @@ def _us(t: float) -> str:
 
 def _hz(f: float) -> str:
     return f"{f / 1e3:.3g} kHz" if f >= 1e3 else f"{f:.3g} Hz"
+
+
+def reactive_results(point: OperatingPoint, bench: Bench, gamma: float, load, frequency: float | None):
+    """(target mode, charging, expected partial pressures, flags) of a reactive process: each gas's
+    expected partial pressure flow / speed (steady state, every gas pumped alike), the target mode from
+    the gas balance, and charging arcs on the target's film (``load`` the load line, if any, for the
+    current; ``frequency`` an alternating supply's, whose half periods discharge the film)."""
+    flags: list[Flag] = []
+    partial = () if bench.pumping_speed is None else tuple((g.key, q / bench.pumping_speed) for g, q in point.flows)
+    target = None
+    if bench.pumping_speed is not None and point.flows:
+        target = target_mode(point.pressure, dict(point.flows), bench.pumping_speed)
+        if target is not None:
+            flags += target_flags(target)
+    charging = None
+    reactive_fill = any(g.reactive for g in bench.fill.gases)
+    film_there = target.mode not in ("metal", "unresolved") if target is not None else reactive_fill
+    current = point.current if point.current is not None else (load.current if load is not None else None)
+    s = bench.supply
+    if bench.film is not None and film_there and s is not None and bench.cathode_area and current:
+        if math.isfinite(current) and current > 0:
+            if frequency is not None:  # each half period reverses the field and discharges the film
+                on = off = 0.5 / frequency
+            else:
+                on = None if s.mode != "pulsed" else 1.0 / s.frequency - s.off_time
+                off = s.off_time
+            area = bench.cathode_area * bench.racetrack_fraction
+            charging, more = charging_flags(bench.film, current, area, gamma, on, off)
+            flags += more
+    return target, charging, partial, flags

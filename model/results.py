@@ -89,8 +89,10 @@ class Alternating:
     """The DC (gamma) mechanism with gamma reduced by the ions' reach, V."""
     dc_voltage: float | None
     """The plain DC breakdown voltage of the same gap, V (for comparison)."""
-    turning_pd: float | None
+    turning_reduced_pd: float | None
     """Reduced pd of the turning point, Pa m (None: no volume breakdown at this frequency and gap)."""
+    turning_pd: float | None
+    """The turning point's actual pd at the gas temperature, Pa m."""
     turning_pressure: float | None
     """The pressure of the turning point at this gap, Pa."""
     turning_voltage: float | None
@@ -128,6 +130,9 @@ class Forecast:
     (Townsend's criterion with attachment, for a mixture or an attaching gas) or "alternating" (an
     AC or RF voltage, :mod:`.alternating`)."""
     minimum_pd: float
+    """The minimum's actual pd at this gas temperature, Pa m."""
+    minimum_reduced_pd: float
+    """The same, reduced to the data's reference density, Pa m."""
     minimum_voltage: float
     minimum_pressure: float
     """The pressure at which this gap sits at the minimum, Pa (at this gas temperature)."""
@@ -206,6 +211,7 @@ class Forecast:
             "breakdown_E_over_p_V_per_Pa_m": self.breakdown_E_over_p,
             "minimum": {
                 "pd_Pa_m": self.minimum_pd,
+                "reduced_pd_Pa_m": self.minimum_reduced_pd,
                 "voltage_V": self.minimum_voltage,
                 "pressure_Pa": self.minimum_pressure,
             },
@@ -290,6 +296,7 @@ class Forecast:
                         ("dc_like_breakdown_V", "dc_like_voltage"),
                         ("dc_breakdown_V", "dc_voltage"),
                         ("turning_pd_Pa_m", "turning_pd"),
+                        ("turning_reduced_pd_Pa_m", "turning_reduced_pd"),
                         ("turning_pressure_Pa", "turning_pressure"),
                         ("turning_V", "turning_voltage"),
                         ("ion_swing_ratio", "ion_swing_ratio"),

@@ -17,6 +17,7 @@ from pathlib import Path
 from ..drivers.specs import PortSpec
 from ..model.bench import Bench, BenchCurve, Chamber, StrayGap
 from ..model.gauges import GaugeCorrection
+from ..model.secondary import MODELS
 from .benchcurve import curve_section, with_curve_section
 from .fields import ProfileError, Table, read_toml
 from .fill import Fill, fill_field, find_film, with_fill
@@ -67,8 +68,10 @@ _BENCH_FIELDS = (
     "gap",
     "gas_temperature",
     "gamma",
+    "gamma_model",
     "pressure",
     "cathode_area",
+    "electrode_radius",
     "magnetic_field",
 )
 _SECTIONS = ("bench", "supply", "stray_gap", "chamber", "port", "flows", "target", "strike_detect", "curve")
@@ -117,7 +120,7 @@ def parse_bench(text: str, label: str, path: Path | None) -> BenchProfile:
     if (c := top.sub("chamber")) is not None:
         c.only(("radius", "length"))
         chamber = Chamber(c.quantity("radius", "chamber"), c.quantity("length", "chamber"))
-    ports, gauges = port_sections(raw, label, fill.mixture or fill.gas)
+    ports, gauges = port_sections(raw, label, fill.composition)
     curve = curve_section(top.sub("curve"), fill.key, cathode)
     flows, speed = _flows_section(top.sub("flows"), ports)
     film, racetrack = None, 1.0
@@ -127,8 +130,7 @@ def parse_bench(text: str, label: str, path: Path | None) -> BenchProfile:
         racetrack = t.number("racetrack_fraction", 1e-3, 1.0, default=1.0)
     bench = Bench(
         name=b.string("name", default=path.stem if path else label),
-        gas=fill.gas,
-        mixture=fill.mixture,
+        fill=fill.composition,
         pumping_speed=speed,
         film=film,
         racetrack_fraction=racetrack,
@@ -136,8 +138,10 @@ def parse_bench(text: str, label: str, path: Path | None) -> BenchProfile:
         gap=b.quantity("gap", "gap"),
         gas_temperature=b.quantity("gas_temperature", "temperature", required=False) or 293.15,
         gamma=b.number("gamma", 1e-6, 1.0, required=False),
+        gamma_model=b.string("gamma_model", default="technical", choices=MODELS).casefold(),
         supply=supply,
         cathode_area=b.quantity("cathode_area", "area", required=False),
+        electrode_radius=b.quantity("electrode_radius", "chamber", required=False),
         magnetic_field=b.quantity("magnetic_field", "field", required=False),
         stray_gaps=tuple(stray),
         chamber=chamber,
@@ -175,8 +179,7 @@ def _flows_section(t: Table | None, ports) -> tuple[dict[str, str], float | None
 
 def with_profile_fill(profile: BenchProfile, fill: Fill) -> BenchProfile:
     """The profile with another gas fill; its gauges' corrections follow (a factor set by hand stays)."""
-    what = fill.mixture or fill.gas
-    gauges = {ch: c if c.overridden else gauge_correction(c.kind, what) for ch, c in profile.gauges.items()}
+    gauges = {ch: c if c.overridden else gauge_correction(c.kind, fill.composition) for ch, c in profile.gauges.items()}
     return replace(profile, bench=with_fill(profile.bench, fill), gauges=gauges)
 
 

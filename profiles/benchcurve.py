@@ -1,8 +1,10 @@
 """A bench curve fitted to this bench's strikes, as the [curve] section of its bench file.
 
-``strikeline fit --save`` writes it with :func:`with_curve_section`; the loader reads it back
-with :func:`curve_section`, refusing a curve fitted for another gas fill or cathode (a mixture's
-fractions may differ by :data:`strikeline.model.composition.SAME_WITHIN`).
+``strikeline fit --save`` writes it with :func:`with_curve_section`: the scales of the fill's own law
+(``alpha_scale``, ``field_scale``, ``gamma_scale``) and their covariance. The loader reads it back with
+:func:`curve_section`, refusing a curve fitted for another gas fill or cathode (a mixture's fractions
+may differ by :data:`strikeline.model.composition.SAME_WITHIN`). A section an earlier version wrote
+(Paschen's closed form: ``A_per_Pa_m``, ``B_V_per_Pa_m``, ``gamma``) is read as that curve still.
 """
 
 from __future__ import annotations
@@ -23,6 +25,9 @@ _CURVE_FIELDS = (
     "fitted_on",
     "n_points",
     "free",
+    "alpha_scale",
+    "field_scale",
+    "gamma_scale",
     "A_per_Pa_m",
     "B_V_per_Pa_m",
     "gamma",
@@ -71,13 +76,16 @@ def curve_section(t: Table | None, composition: str, cathode: Cathode) -> BenchC
     pd_low, pd_high = t.number("pd_low_Pa_m", 1e-9, 1e6), t.number("pd_high_Pa_m", 1e-9, 1e6)
     if not pd_low < pd_high:
         raise t.fail("pd_high_Pa_m", f"{pd_high!r} is not above pd_low_Pa_m {pd_low!r}: the fitted range is inverted")
+    if t.has("alpha_scale"):
+        scales = tuple(t.number(k, 1e-3, 1e3) for k in ("alpha_scale", "field_scale", "gamma_scale"))
+        base = None
+    else:  # written by an earlier version: Paschen's closed form with its own constants
+        scales = (1.0, 1.0, 1.0)
+        base = (t.number("A_per_Pa_m", 1e-3, 1e4), t.number("B_V_per_Pa_m", 1e-1, 1e5), t.number("gamma", 1e-6, 1.0))
     return BenchCurve(
-        A=t.number("A_per_Pa_m", 1e-3, 1e4),
-        B=t.number("B_V_per_Pa_m", 1e-1, 1e5),
-        gamma=t.number("gamma", 1e-6, 1.0),
-        A_sigma=t.number("A_sigma", 0, 1e6),
-        B_sigma=t.number("B_sigma", 0, 1e7),
-        gamma_sigma=t.number("gamma_sigma", 0, 10),
+        alpha_scale=scales[0],
+        field_scale=scales[1],
+        gamma_scale=scales[2],
         covariance=tuple(tuple(float(x) for x in r) for r in cov),
         rms_residual=t.number("rms_residual_V", 0, 1e6),
         n_points=int(t.number("n_points", 1, 1e6)),
@@ -90,6 +98,7 @@ def curve_section(t: Table | None, composition: str, cathode: Cathode) -> BenchC
         t_quantile=t.number("t_quantile", 0.5, 1000),
         free=tuple(free),
         marks=_marks(t),
+        base=base,
     )
 
 
@@ -110,13 +119,18 @@ def _marks(t: Table) -> tuple[tuple[float, float], ...]:
 def curve_toml(c: BenchCurve) -> str:
     """The ``[curve]`` section for a fitted bench curve."""
     cov = ", ".join("[" + ", ".join(repr(x) for x in row) + "]" for row in c.covariance)
+    if c.base is None:
+        law = f"alpha_scale = {c.alpha_scale!r}\nfield_scale = {c.field_scale!r}\ngamma_scale = {c.gamma_scale!r}\n"
+    else:
+        A, B, gamma = c.base
+        law = f"A_per_Pa_m = {A!r}\nB_V_per_Pa_m = {B!r}\ngamma = {gamma!r}\n"
     return (
         "[curve]\n"
-        "# Fitted by strikeline fit: Paschen's law on this bench's strike marks. Do not edit by hand.\n"
+        "# Fitted by strikeline fit: the fill's own law, its ionisation, field and gamma scaled to this bench's\n"
+        "# strike marks. Do not edit by hand.\n"
         f'gas = "{c.gas}"\ncathode = "{c.cathode}"\nfitted_on = "{c.fitted_on}"\nn_points = {c.n_points}\n'
         f"free = [{', '.join(repr(p).replace(chr(39), chr(34)) for p in c.free)}]\n"
-        f"A_per_Pa_m = {c.A!r}\nB_V_per_Pa_m = {c.B!r}\ngamma = {c.gamma!r}\n"
-        f"A_sigma = {c.A_sigma!r}\nB_sigma = {c.B_sigma!r}\ngamma_sigma = {c.gamma_sigma!r}\n"
+        f"{law}"
         f"covariance_ln = [{cov}]\nresidual_scale = {c.residual_scale!r}\nt_quantile = {c.t_quantile!r}\n"
         f"rms_residual_V = {c.rms_residual!r}\npd_low_Pa_m = {c.pd_low!r}\npd_high_Pa_m = {c.pd_high!r}\n"
         f"marks = [{', '.join(f'[{a!r}, {b!r}]' for a, b in c.marks)}]\n"

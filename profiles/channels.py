@@ -16,7 +16,7 @@ from typing import Any
 from ..drivers.reading import QUANTITIES, Status
 from ..drivers.specs import Analog, ChannelSpec
 from ..model import units
-from ..model.bench import Gas
+from ..model.composition import Composition
 from ..model.gauges import GAUGE_KINDS, GaugeCorrection
 from ..model.limits import Limit
 from .fields import Table
@@ -107,7 +107,7 @@ def _unit_factor(t: Table, key: str, kind: str) -> float:
 
 
 def channel_fields(
-    c: Table, gas: Gas, *, unit_in_answer: bool = False
+    c: Table, fill: Composition, *, unit_in_answer: bool = False
 ) -> tuple[dict[str, Any], GaugeCorrection | None]:
     """The protocol-independent fields of channel table ``c`` as ChannelSpec arguments, and the gas
     correction of a pressure channel. ``unit_in_answer``: the answer may name its own unit (a
@@ -146,7 +146,7 @@ def channel_fields(
         if quantity != "pressure":
             raise c.fail("gauge", "only a pressure channel has a gauge kind")
         factor = c.number("gauge_factor", 1e-3, 1e3, required=False)
-        corr = gauge_correction(c.string("gauge", choices=GAUGE_KINDS).casefold(), gas, factor)
+        corr = gauge_correction(c.string("gauge", choices=GAUGE_KINDS).casefold(), fill, factor)
     elif "gauge_factor" in c.data:
         raise c.fail("gauge_factor", "needs gauge = capacitance, thermal or ionisation beside it")
     return out, corr

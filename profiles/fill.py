@@ -14,117 +14,54 @@ A bench profile may also give ``gas = { argon = 80, oxygen = 20 }``.
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, replace
 from functools import cache
 from typing import Any
 
-from ..model.bench import Bench, Film, Gas, Mixture
-from ..model.composition import make_mixture
-from ..model.limits import parse_within
-from ..model.units import QuantityError
+from ..model import composition
+from ..model.bench import Bench
+from ..model.composition import FORM, Composition, CompositionError
+from ..model.gas import Film, Gas
 from .fields import ProfileError, Table, name_key, read_toml
 from .gasdata import data_text, find_gas
 
 __all__ = ["FORM", "Fill", "fill_field", "fill_from_flows", "films", "find_film", "read_fill", "with_fill"]
 
-FORM = 'write a mixture as gas:parts,... e.g. "argon:80,oxygen:20", or by flows, e.g. "argon:40 sccm,oxygen:8 sccm"'
-
 
 @dataclass(frozen=True)
 class Fill:
-    """A gas fill: its largest gas, the mixture (None: a pure gas), and the flows it was given by."""
+    """A gas fill as the user wrote it: what is in the chamber, and the flows it was given by."""
 
-    gas: Gas
-    mixture: Mixture | None = None
+    composition: Composition
     flows: tuple[tuple[Gas, float], ...] = ()
     """(gas, Pa m^3/s) when the fill was written as flows (empty otherwise)."""
 
     @property
     def key(self) -> str:
         """The composition as text ("argon" or "argon:80,oxygen:20")."""
-        return self.gas.key if self.mixture is None else self.mixture.key
+        return self.composition.key
 
 
-def with_fill(bench: Bench, fill: Fill) -> Bench:
+def with_fill(bench: Bench, fill: Fill | Composition) -> Bench:
     """The bench with this gas fill (a fitted curve stays: it applies where its composition matches)."""
-    return replace(bench, gas=fill.gas, mixture=fill.mixture)
+    return replace(bench, fill=fill.composition if isinstance(fill, Fill) else fill)
 
 
 def read_fill(text: str) -> Fill:
-    """A gas, a mixture by parts or a mixture by flows, from text; one-line ProfileError otherwise.
+    """A gas, a mixture by parts or a mixture by flows, from text (:func:`strikeline.model.composition.parse`);
+    one-line ProfileError otherwise.
 
-    >>> read_fill("argon:80,oxygen:20").key, read_fill("Ar:1").mixture is None
+    >>> read_fill("argon:80,oxygen:20").key, read_fill("Ar:1").composition.pure
     ('argon:80,oxygen:20', True)
     >>> f = read_fill("argon:40 sccm,oxygen:10 sccm")
     >>> f.key, [g.key for g, _ in f.flows]
     ('argon:80,oxygen:20', ['argon', 'oxygen'])
     """
-    if not isinstance(text, str) or not text.strip():
-        raise ProfileError(f"gas {text!r}: empty; give a gas name, or {FORM}")
-    if ":" not in text and "," not in text:
-        return Fill(find_gas(text))
-    items: list[tuple[Gas, float]] = []
-    by_flow: list[bool] = []
-    for part in text.split(","):
-        name, sep, amount = part.partition(":")
-        if not sep:
-            raise ProfileError(f"gas {text!r}: {part.strip()!r} has no parts; {FORM}")
-        if not name.strip():
-            raise ProfileError(f"gas {text!r}: {part.strip()!r} names no gas; {FORM}")
-        gas = find_gas(name.strip())
-        flow = not _is_number(amount)
-        x = _flow(text, gas, amount) if flow else _parts(text, gas, amount)
-        if any(g.key == gas.key for g, _ in items):
-            raise ProfileError(f"gas {text!r}: {gas.key} is listed twice; {FORM}")
-        items.append((gas, x))
-        by_flow.append(flow)
-    if any(by_flow) and not all(by_flow):
-        raise ProfileError(f"gas {text!r}: give every gas parts, or every gas a flow with its unit; {FORM}")
-    return _fill(text, items, flows=all(by_flow))
-
-
-def _is_number(text: str) -> bool:
     try:
-        float(text)
-    except ValueError:
-        return not text.strip()  # nothing after the colon: parts missing, said as such
-    return True
-
-
-def _parts(text: str, gas: Gas, amount: str) -> float:
-    try:
-        x = float(amount)
-    except ValueError:
-        x = math.nan
-    if not (math.isfinite(x) and x > 0):
-        raise ProfileError(
-            f"gas {text!r}: parts {amount.strip()!r} of {gas.key} are not a finite number above zero; {FORM}"
-        )
-    return x
-
-
-def _flow(text: str, gas: Gas, amount: str) -> float:
-    try:
-        return parse_within(amount, "flow", label=f"{gas.key} flow")
-    except QuantityError as e:
-        raise ProfileError(f"gas {text!r}: {e}") from None
-
-
-def _fill(text: str, items: list[tuple[Gas, float]], *, flows: bool) -> Fill:
-    if not math.isfinite(sum(x for _, x in items)):
-        raise ProfileError(f"gas {text!r}: the parts add up to no finite number; {FORM}")
-    keys = {g.key for g, _ in items}
-    if "air" in keys and keys & {"nitrogen", "oxygen"}:
-        raise ProfileError(
-            f"gas {text!r}: air already holds nitrogen and oxygen; write the whole mixture in its gases, "
-            'e.g. "nitrogen:78,oxygen:21,argon:1"'
-        )
-    made = make_mixture(items)
-    flow_list = tuple(items) if flows else ()
-    if isinstance(made, Gas):
-        return Fill(made, None, flow_list)
-    return Fill(made.main, made, flow_list)
+        comp, flows = composition.parse(text, find_gas)
+    except CompositionError as e:
+        raise ProfileError(str(e)) from None
+    return Fill(comp, flows)
 
 
 def fill_from_flows(flows: dict[Gas, float]) -> Fill | None:
@@ -133,7 +70,7 @@ def fill_from_flows(flows: dict[Gas, float]) -> Fill | None:
     present = [(g, q) for g, q in flows.items() if q > 0]
     if not present:
         return None
-    return _fill("flows", present, flows=True)
+    return Fill(composition.make(present), tuple(present))
 
 
 def fill_field(t: Table, key: str) -> Fill:

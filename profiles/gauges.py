@@ -11,7 +11,7 @@ from __future__ import annotations
 from functools import cache
 from typing import Any
 
-from ..model.bench import Gas, Mixture
+from ..model.composition import Composition
 from ..model.gauges import GaugeCorrection, sensitivity
 from .fields import read_toml
 from .gasdata import data_text
@@ -24,9 +24,9 @@ def _gauge_data() -> dict[str, Any]:
     return read_toml(data_text("gauges.toml"), "gauges.toml")
 
 
-def gauge_correction(kind: str, fill: Gas | Mixture, override: float | None = None) -> GaugeCorrection:
-    """The correction of a ``kind`` gauge's reading in ``fill`` (a gas or a mixture; ``override``:
-    true = f x indicated, set by hand)."""
+def gauge_correction(kind: str, fill: Composition, override: float | None = None) -> GaugeCorrection:
+    """The correction of a ``kind`` gauge's reading in ``fill`` (``override``: true = f x indicated, set
+    by hand)."""
     d = _gauge_data()[kind]
     limit = d.get("linear_below_Pa")
     if override is not None:
@@ -34,16 +34,16 @@ def gauge_correction(kind: str, fill: Gas | Mixture, override: float | None = No
     if kind == "capacitance":
         return GaugeCorrection(kind, 1.0, None, d["source"])
     if kind == "thermal":
-        if isinstance(fill, Mixture):
+        if not fill.pure:
             why = f"no thermal-gauge factor for a mixture ({fill.key}): reading shown uncorrected, approximate"
             return GaugeCorrection(kind, None, limit, why)
         f = d["factor"].get(fill.key)
         return GaugeCorrection(kind, f, limit, d["source"] if f else f"no thermal-gauge factor for {fill.key}")
     table = d["sensitivity"]
-    parts = [(1.0, fill.key)] if isinstance(fill, Gas) else [(c.fraction, c.gas.key) for c in fill.components]
+    parts = [(c.fraction, c.gas.key) for c in fill.components]
     s = sensitivity(parts, table)
     if s is None:
         missing = ", ".join(key for _, key in parts if key not in table)
         return GaugeCorrection(kind, None, limit, f"no ionisation-gauge sensitivity for {missing}")
-    source = d["source"] if isinstance(fill, Gas) else f"{d['source']}; mole-fraction sum (common practice)"
+    source = d["source"] if fill.pure else f"{d['source']}; mole-fraction sum (common practice)"
     return GaugeCorrection(kind, 1.0 / s, limit, source)

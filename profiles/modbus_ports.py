@@ -10,7 +10,7 @@ ever reads: no field here can make it write a register or a coil.
 from __future__ import annotations
 
 from ..drivers.specs import DATA_TYPES, REGISTER_TABLES, ChannelSpec, ModbusPortSpec, Register
-from ..model.bench import Gas
+from ..model.composition import Composition
 from ..model.gauges import GaugeCorrection
 from .channels import CHANNEL_FIELDS, PORT_FIELDS, channel_fields, channels_of, port_timing
 from .fields import Table
@@ -43,7 +43,7 @@ _WORD_TYPES = tuple(t for t in DATA_TYPES if t != "bit")
 
 
 def modbus_port(
-    t: Table, label: str, i: int, gas: Gas, names: set[str], gauges: dict[str, GaugeCorrection]
+    t: Table, label: str, i: int, fill: Composition, names: set[str], gauges: dict[str, GaugeCorrection]
 ) -> ModbusPortSpec:
     """A ``protocol = "modbus"`` port section."""
     t.only(_PORT_FIELDS)
@@ -73,7 +73,7 @@ def modbus_port(
 
     def channel(c: Table) -> tuple[ChannelSpec, GaugeCorrection | None]:
         c.only(_CHANNEL_FIELDS)
-        fields, corr = channel_fields(c, gas)
+        fields, corr = channel_fields(c, fill)
         reg = _register(c, "table", "address", "type")
         if reg.bits and fields["quantity"] != "state":
             raise c.fail("table", f'a {reg.table} holds one bit: give quantity = "state" (with labels) to read it')

@@ -11,7 +11,7 @@ from __future__ import annotations
 from typing import Any
 
 from ..drivers.specs import ChannelSpec, ModbusPortSpec, PortSpec, ScpiPortSpec
-from ..model.bench import Gas
+from ..model.composition import Composition
 from ..model.gauges import GaugeCorrection
 from .channels import (
     CHANNEL_FIELDS,
@@ -46,7 +46,9 @@ _LINE_CHANNEL_FIELDS = CHANNEL_FIELDS + ("query", "pattern", "units")
 AnyPort = PortSpec | ModbusPortSpec | ScpiPortSpec
 
 
-def port_sections(raw: dict[str, Any], label: str, gas: Gas) -> tuple[tuple[AnyPort, ...], dict[str, GaugeCorrection]]:
+def port_sections(
+    raw: dict[str, Any], label: str, fill: Composition
+) -> tuple[tuple[AnyPort, ...], dict[str, GaugeCorrection]]:
     """The [[port]] sections of a parsed bench file: port specs, and gas corrections by channel."""
     items = raw.get("port", [])
     if not isinstance(items, list):
@@ -58,11 +60,13 @@ def port_sections(raw: dict[str, Any], label: str, gas: Gas) -> tuple[tuple[AnyP
         t = Table(label, f"port #{i}", item)
         protocol = t.string("protocol", default="lines", choices=PROTOCOLS).casefold()
         build = {"lines": _line_port, "modbus": modbus_port, "scpi": scpi_port}[protocol]
-        ports.append(build(t, label, i, gas, names, gauges))
+        ports.append(build(t, label, i, fill, names, gauges))
     return tuple(ports), gauges
 
 
-def _line_port(t: Table, label: str, i: int, gas: Gas, names: set[str], gauges: dict[str, GaugeCorrection]) -> PortSpec:
+def _line_port(
+    t: Table, label: str, i: int, fill: Composition, names: set[str], gauges: dict[str, GaugeCorrection]
+) -> PortSpec:
     t.only(_LINE_PORT_FIELDS)
     mode = t.string("mode", default="polled", choices=("polled", "streaming")).casefold()
     url = t.string("url")
@@ -71,7 +75,7 @@ def _line_port(t: Table, label: str, i: int, gas: Gas, names: set[str], gauges: 
     def channel(c: Table) -> tuple[ChannelSpec, GaugeCorrection | None]:
         c.only(_LINE_CHANNEL_FIELDS)
         pattern = pattern_field(c)
-        fields, corr = channel_fields(c, gas, unit_in_answer="unit" in pattern.groupindex)
+        fields, corr = channel_fields(c, fill, unit_in_answer="unit" in pattern.groupindex)
         query = None
         if mode == "polled":
             if "query" not in c.data:

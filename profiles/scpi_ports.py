@@ -11,7 +11,7 @@ from __future__ import annotations
 import re
 
 from ..drivers.specs import ChannelSpec, ScpiPortSpec
-from ..model.bench import Gas
+from ..model.composition import Composition
 from ..model.gauges import GaugeCorrection
 from .channels import (
     CHANNEL_FIELDS,
@@ -35,7 +35,7 @@ _RESOURCE = re.compile(r"^(TCPIP|USB|ASRL|GPIB|VXI|PXI)\d*::\S+$", re.IGNORECASE
 
 
 def scpi_port(
-    t: Table, label: str, i: int, gas: Gas, names: set[str], gauges: dict[str, GaugeCorrection]
+    t: Table, label: str, i: int, fill: Composition, names: set[str], gauges: dict[str, GaugeCorrection]
 ) -> ScpiPortSpec:
     """A ``protocol = "scpi"`` port section."""
     t.only(_PORT_FIELDS)
@@ -56,7 +56,7 @@ def scpi_port(
     def channel(c: Table) -> tuple[ChannelSpec, GaugeCorrection | None]:
         c.only(_CHANNEL_FIELDS)
         pattern = pattern_field(c, default=NUMBER_ONLY)
-        fields, corr = channel_fields(c, gas, unit_in_answer="unit" in pattern.groupindex)
+        fields, corr = channel_fields(c, fill, unit_in_answer="unit" in pattern.groupindex)
         if "query" not in c.data:
             raise c.fail("query", 'missing; give the instrument\'s command that asks for this value, e.g. "MEAS:VOLT?"')
         units_ = unit_map(c, fields["quantity"])
