@@ -22,6 +22,9 @@ if TYPE_CHECKING:
 
 __all__ = ["calibration_curve", "live_curve"]
 
+_LEFT_SPAN = 30.0
+"""How far left of the minimum (a factor in pd) the curve is drawn where its left branch has no end."""
+
 
 def live_curve(
     bench: Bench,
@@ -44,18 +47,15 @@ def live_curve(
     """
     import numpy as np
 
-    from ..model.breakdown import alternating_law, breakdown_law
+    from ..model.curve import curve_of
 
     if width < 20 or height < 6:
         return None
-    textbook = replace(bench, curve=None)  # the textbook line; a fit is drawn over it
-    s = bench.supply
-    freq = s.frequency if s is not None and s.mode == "ac" else None
-    law = breakdown_law(textbook) if freq is None else alternating_law(textbook, freq, values["gap"])
+    T = values["temperature"]
+    c = curve_of(bench, gap=values["gap"], temperature=T, textbook=True)  # the default line; a fit over it
+    law, freq, scale = c.law, c.frequency, c.scale
     gamma = law.gamma
     f = view.forecast if view is not None else None
-    T = values["temperature"]
-    scale = law.reference_temperature / T
     ratio = 1.0
     if f is not None and f.effective_pressure is not None:
         # Magnetised: in 5 % steps, so gauge noise does not redraw an unchanged picture.
@@ -63,7 +63,7 @@ def live_curve(
     k = scale * ratio  # reduced pd = actual pd * k
     pd0 = law.no_breakdown_pd()
     pd_min, v_min = law.minimum()
-    lo = pd0 * 1.01
+    lo = max(pd0 * 1.01, pd_min / _LEFT_SPAN)  # a left branch without an end is drawn over 1.5 decades
     hi = pd_min * 300
     if f is not None:  # the operating point is always on the picture, even left of the asymptote
         lo = min(lo, f.reduced_pd / 2)
@@ -110,20 +110,20 @@ def live_curve(
 def _fitted(bench: Bench, rpd, k: float, to_x: float):
     """(pd, V_b, low, high) of the bench's fitted curve and its band, if it fits this gas fill and cathode."""
     from ..model.calibration import prediction_band
-    from ..model.forecast import with_bench_curve
+    from ..model.curve import curve_of
 
-    _bench, cv = with_bench_curve(bench)
-    if cv is None:
+    c = curve_of(bench)
+    if c.fitted is None:
         return None
-    v, lo, hi = prediction_band(cv, rpd)
+    v, lo, hi = prediction_band(c.fitted, c.dc.unscaled(), rpd)
     return tuple(rpd / k * to_x), tuple(v), tuple(lo), tuple(hi)
 
 
 def _saved(bench: Bench, k: float, to_x: float) -> tuple[tuple[float, float], ...]:
     """The strikes the bench's own curve was fitted to, where that curve holds for this fill."""
-    from ..model.forecast import with_bench_curve
+    from ..model.curve import fitted_curve
 
-    _bench, cv = with_bench_curve(bench)
+    cv = fitted_curve(bench)
     return () if cv is None else tuple((rpd / k * to_x, v) for rpd, v in cv.marks)
 
 
@@ -140,10 +140,10 @@ def calibration_curve(
     the lowest mark to three times the highest (two decades either side of the minimum without any)."""
     import numpy as np
 
-    from ..model.breakdown import breakdown_law
     from ..model.calibration import prediction_band
+    from ..model.curve import curve_of
 
-    law = breakdown_law(replace(bench, curve=None, supply=None))  # Paschen's law: the fit is a DC fit
+    law = curve_of(replace(bench, curve=None, supply=None)).dc  # the DC law: the fit is a DC fit
     pd_min, v_min = law.minimum()
     points = tuple(zip(cal.pd, cal.voltage, strict=True)) if cal is not None else tuple(marks)
     if points:
@@ -154,7 +154,7 @@ def calibration_curve(
     vb, _w = law.voltage(rpd)
     fitted = None
     if cal is not None:
-        fv, flo, fhi = prediction_band(cal.result.curve, rpd)
+        fv, flo, fhi = prediction_band(cal.result.curve, law, rpd)
         fitted = (tuple(rpd), tuple(fv), tuple(flo), tuple(fhi))
     return CurveInputs(
         pd=tuple(rpd),

@@ -11,8 +11,8 @@ from collections.abc import Mapping
 from dataclasses import dataclass
 
 from ..drivers.hub import Latest
-from ..model.bench import Gas
 from ..model.composition import same_composition
+from ..model.gas import Gas
 from ..profiles.fill import Fill, fill_from_flows
 from ..profiles.gasdata import find_gas
 

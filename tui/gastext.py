@@ -15,18 +15,35 @@ _REFUSED = (
 )
 
 
+def _yield_json(y) -> dict[str, Any]:
+    return {
+        "value": y.value,
+        "range": [y.low, y.high],
+        "reference_E_over_p_V_per_Pa_m": y.reference or None,
+        "knee_E_over_p_V_per_Pa_m": y.knee or None,
+        "slope": y.slope,
+        "cap": y.cap,
+        "source": y.source,
+    }
+
+
 def gases_json() -> dict[str, Any]:
     """Gas, mixing and cathode data in SI, with sources."""
     from ..model import mixture as mx
-    from ..model.breakdown import gas_law
+    from ..model.breakdown import law_for
+    from ..model.composition import pure
     from ..model.flags import MIXTURE_UNCERTAINTY
+    from ..model.ionisation import TD_PER_V_PER_PA_M
     from ..profiles.fill import films
+    from ..profiles.gasdata import sources
     from ..profiles.loader import cathodes, gases
 
     out_g = []
     for g in gases().values():
         c = g.constants
-        pd_min, v_min = gas_law(g, 0.01).minimum()
+        law = law_for(pure(g), [g.yield_])
+        pd_min, v_min = law.minimum()
+        critical = law.critical_E_over_p
         out_g.append(
             {
                 "name": g.key,
@@ -36,20 +53,28 @@ def gases_json() -> dict[str, Any]:
                 "E_over_p_range_V_per_Pa_m": [c.E_over_p_low, c.E_over_p_high],
                 "reference_temperature_K": c.reference_temperature,
                 "source": c.source,
-                "low_field": None
-                if g.low_field is None
-                else {
-                    "A_per_Pa_m": g.low_field.A,
-                    "B_V_per_Pa_m": g.low_field.B,
-                    "E_over_p_range_V_per_Pa_m": [g.low_field.E_over_p_low, g.low_field.E_over_p_high],
-                },
+                "ionisation": [
+                    {
+                        "form": "A exp(-B/y)" if seg.power == 1.0 else "A exp(-sqrt(B/y))",
+                        "A_per_Pa_m": seg.A,
+                        "B_V_per_Pa_m": seg.B,
+                        "E_over_p_range_V_per_Pa_m": [seg.low, seg.high],
+                        "source": seg.source,
+                    }
+                    for seg in g.ionisation.segments
+                ],
+                "gamma_technical": _yield_json(g.yield_),
+                "minimum_checked": g.minimum_checked,
                 "attachment": None
                 if g.attachment is None
                 else {
                     "E_over_p_range_V_per_Pa_m": [g.attachment.valid_low, g.attachment.valid_high],
                     "source": g.attachment.source,
+                    "three_body_source": g.attachment.three_body_source or None,
                 },
-                "minimum_at_gamma_0.01": {"pd_Pa_m": pd_min, "voltage_V": v_min},
+                "attaches": "yes" if g.attachment else ("yes, no data held" if g.attaches_unmodelled else "no"),
+                "critical_E_over_N_Td": None if critical is None else critical * TD_PER_V_PER_PA_M,
+                "minimum": {"reduced_pd_Pa_m": pd_min, "voltage_V": v_min},
                 "ionisation_energy_eV": g.ionisation_energy,
                 "metastable_energy_eV": g.metastable_energy,
                 "reactive": g.reactive,
@@ -84,10 +109,11 @@ def gases_json() -> dict[str, Any]:
                 "symbol": cat.symbol,
                 "work_function_eV": cat.work_function,
                 "note": cat.note,
-                "gamma": {
+                "gamma_own": {key: _yield_json(y) for key, y in cat.yields.items()},
+                "gamma_clean_metal": {
                     g.key: {"value": y.value, "range": [y.low, y.high], "source": y.source}
                     for g in gas_list
-                    for y in [cat.yield_for(g)]
+                    if (y := cat.yield_for(g, "clean-metal")) is not g.yield_
                 },
             }
         )
@@ -95,35 +121,55 @@ def gases_json() -> dict[str, Any]:
         {"film": f.name, "eps_r": list(f.eps_r), "strength_V_per_m": list(f.strength), "source": f.source}
         for f in films().values()
     ]
-    return {"gases": out_g, "mixing": mixing, "cathodes": out_c, "films": out_f}
+    return {"gases": out_g, "mixing": mixing, "cathodes": out_c, "films": out_f, "sources": sources()}
 
 
 def gases_text() -> str:
-    """Gas, mixing and cathode tables as ``strikeline gases`` prints them."""
+    """Gas, mixing and cathode tables as ``strikeline gases`` prints them, and the sources they cite."""
+    from ..profiles.gasdata import cite
+
     d = gases_json()
     per = 1.0 / (_c.centi * _c.torr)
-    lines = ["gases (A, B per cm Torr; minimum at gamma 0.01)", ""]
-    lines.append(f"  {'gas':<15} {'A':>6} {'B':>6} {'E/p range':>11} {'V_min':>7} {'pd_min':>13}  source")
+    tc = _c.torr * _c.centi
+    lines = [
+        "gases: the ionisation law (alpha/p against E/p, published segments), the effective gamma on a",
+        "technical cathode, the minimum they give, and the critical field where attachment equals ionisation",
+        "(A per cm Torr, B and E/p in V/(cm Torr), pressures at 0 C)",
+        "",
+    ]
     for g in d["gases"]:
-        lo, hi = g["E_over_p_range_V_per_Pa_m"]
-        m = g["minimum_at_gamma_0.01"]
+        m = g["minimum"]
+        crit = g["critical_E_over_N_Td"]
+        attach = "does not attach" if g["attaches"] == "no" else (
+            f"critical E/N {crit:.0f} Td" if crit is not None else "attaches: no data held"
+        )  # fmt: skip
+        name = g["symbol"] + ("" if g["symbol"].casefold() == g["name"] else f" {g['name']}")
         lines.append(
-            f"  {g['symbol'] + ' ' + ('' if g['symbol'].casefold() == g['name'] else g['name']):<15} "
-            f"{g['A_per_Pa_m'] / per:>6.3g} {g['B_V_per_Pa_m'] / per:>6.4g} "
-            f"{f'{lo / per:.0f}-{hi / per:.0f}':>11} {m['voltage_V']:>5.0f} V "
-            f"{m['pd_Pa_m'] / (_c.torr * _c.centi):>5.3g} Torr cm  {g['source']}"
+            f"  {name:<19} minimum {m['voltage_V']:.0f} V at {m['reduced_pd_Pa_m'] / tc:.3g} Torr cm; {attach}"
+            + ("" if g["minimum_checked"] else "; not checked against a measured minimum")
         )
-        if g["low_field"]:
-            lf = g["low_field"]
-            lo, hi = lf["E_over_p_range_V_per_Pa_m"]
+        for seg in g["ionisation"]:
+            lo, hi = seg["E_over_p_range_V_per_Pa_m"]
             lines.append(
-                f"  {'':<15} {lf['A_per_Pa_m'] / per:>6.3g} {lf['B_V_per_Pa_m'] / per:>6.4g} "
-                f"{f'{lo / per:.3g}-{hi / per:.0f}':>11}  (low fields)"
+                f"      {seg['form']:<18} A {seg['A_per_Pa_m'] / per:<7.4g} B {seg['B_V_per_Pa_m'] / per:<7.4g} "
+                f"{lo / per:.4g}-{hi / per:.4g}  {seg['source']}"
             )
+        y = g["gamma_technical"]
+        shape = ""
+        if y["slope"]:
+            knee = y["knee_E_over_p_V_per_Pa_m"]
+            shape = f" at {y['reference_E_over_p_V_per_Pa_m'] / per:.4g}, x (E/p)^{y['slope']:g}"
+            shape += f" above {knee / per:.4g}" if knee else ""
+            shape += f", at most {y['cap']:g}" if y["cap"] else ""
+        lines.append(
+            f"      gamma {y['value']:.3g}{shape} (range {y['range'][0]:.2g}-{y['range'][1]:.2g})  {y['source']}"
+        )
         if g["attachment"]:
-            lines.append(f"  {'':<15} attaches electrons: {g['attachment']['source']}")
+            lines.append(f"      attaches electrons: {g['attachment']['source']}")
+            if g["attachment"]["three_body_source"]:
+                lines.append(f"      three-body: {g['attachment']['three_body_source']}")
         if g["uniform_field_law"]:
-            lines.append(f"  {'':<15} high pd: {g['uniform_field_law']['source']}")
+            lines.append(f"      high pd: {g['uniform_field_law']['source']}")
     mix = d["mixing"]
     lines += ["", f"mixtures: {mix['form']}", ""]
     lines += [f"  {rule}" for rule in mix["rules"]]
@@ -142,14 +188,19 @@ def gases_text() -> str:
         lines.append(
             f"  {f['film']:<7} eps_r {_span(*f['eps_r'])}  E_bd {_span(lo / 1e8, hi / 1e8)} MV/cm  {f['source']}"
         )
-    lines += ["", "cathodes (gamma by gas)", ""]
+    lines += ["", "cathodes (their own gamma where a source gives one; the clean-metal estimate, gamma_model = "
+              '"clean-metal", by gas)', ""]  # fmt: skip
     for c in d["cathodes"]:
         note = f"  ({c['note']})" if c["note"] else ""
         lines.append(f"  {c['symbol']} {c['name']}, work function {c['work_function_eV']:g} eV{note}")
-        for gas, y in c["gamma"].items():
+        for gas, y in c["gamma_own"].items():
             lines.append(
                 f"      {gas:<15} {y['value']:<7.3g} range {y['range'][0]:.2g}-{y['range'][1]:.2g}  {y['source']}"
             )
+        clean = ", ".join(f"{gas} {y['value']:.2g}" for gas, y in c["gamma_clean_metal"].items())
+        lines.append(f"      clean metal: {clean or 'none'}")
+    lines += ["", "sources (each [key] above)", ""]
+    lines += [f"  [{key}] {cite(entry)}" for key, entry in d["sources"].items()]
     return "\n".join(lines)
 
 

@@ -40,7 +40,7 @@ class PanelDrawing:
     def _draw_title(self) -> None:
         b = self.session.bench
         f = None if self.view_ is None else self.view_.forecast
-        gamma = b.yield_().value if f is None else f.gamma  # a mixture's is the forecast's
+        gamma = b.yield_for(b.gas).value if f is None else f.gamma  # the forecast's at its field
         t = Text()
         t.append("strikeline ", style="bold")
         t.append(f"{self.session.profile.label} | {fill_label(b)} / {b.cathode.symbol} | γ {gamma:.3g}")

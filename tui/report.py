@@ -103,9 +103,7 @@ def bench_of_log(header: dict, given: Bench | None) -> tuple[Bench, list[str]]:
             raise OutputError("the logbook names no bench profile, gas and cathode: give --bench FILE")
         try:
             fill = read_fill(str(gas))
-            bench = with_fill(
-                Bench(name=label or "logbook", gas=fill.gas, cathode=find_cathode(str(cathode)), gap=1.0), fill
-            )
+            bench = Bench(name=label or "logbook", fill=fill.composition, cathode=find_cathode(str(cathode)), gap=1.0)
         except (ValueError, ProfileError) as e:
             raise OutputError(f"the logbook's gas {gas!r} or cathode {cathode!r}: {e}; give --bench FILE") from None
         notes.append(f"no bench profile found for {label!r}: the curve is the textbook one of its gas and cathode")

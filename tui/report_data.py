@@ -11,7 +11,7 @@ from __future__ import annotations
 
 from array import array
 from collections import defaultdict
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field
 from typing import Any
 
 import numpy as np
@@ -255,61 +255,60 @@ class CurveData:
 
 def curve_data(bench: Bench, pd_seen: np.ndarray, points: int = 400) -> CurveData:
     """The curve over a pd range that holds the minimum and every pd in ``pd_seen`` (Pa m)."""
-    from ..model.breakdown import alternating_law, breakdown_law
     from ..model.calibration import prediction_band
-    from ..model.forecast import with_bench_curve
+    from ..model.curve import curve_of
 
-    textbook = replace(bench, curve=None)
-    s = bench.supply
-    frequency = s.frequency if s is not None and s.mode == "ac" else None
-    law = breakdown_law(textbook) if frequency is None else alternating_law(textbook, frequency, bench.gap)
-    scale = law.reference_temperature / bench.gas_temperature  # reduced pd = actual pd * scale
-    pd0 = law.no_breakdown_pd() / scale
-    pd_min, v_min = law.minimum()
+    c = curve_of(bench, textbook=True)  # the default curve; a fit is drawn over it
+    fitted_curve = curve_of(bench).fitted
+    law = c.law
+    pd0 = law.no_breakdown_pd() / c.scale
+    pd_min, v_min = c.minimum
     seen = pd_seen[np.isfinite(pd_seen) & (pd_seen > 0)]
-    lo = max(pd0 * 1.01, np.min(seen / 2, initial=pd_min / scale / 3))
-    hi = np.max(seen * 2, initial=pd_min / scale * 300)
+    lo = max(pd0 * 1.01, np.min(seen / 2, initial=pd_min / 3))
+    hi = np.max(seen * 2, initial=pd_min * 300)
     pd = np.geomspace(lo, hi, points)
-    vb, _w = law.voltage(pd * scale)
+    vb = c.at_pd(pd)
     notes, upper = [], None
-    if frequency is not None:
-        upper = np.asarray(law.upper(pd * scale))
+    if c.alternating:
+        upper = np.asarray(law.upper(pd * c.scale))
         notes.append(
             f"the curve is the alternating supply's at its {bench.gap * 1e3:.3g} mm gap; voltages are amplitudes"
         )
-    _b, cv = with_bench_curve(bench)
     fitted = None
-    if cv is not None and frequency is None:  # a fit is of Paschen's (DC) law
-        v, band_lo, band_hi = prediction_band(cv, pd * scale)
+    if fitted_curve is not None and not c.alternating:  # a fit is of the DC law
+        v, band_lo, band_hi = prediction_band(fitted_curve, curve_of(bench).dc.unscaled(), pd * c.scale)
         fitted = (np.asarray(v), np.asarray(band_lo), np.asarray(band_hi))
     supply = None if bench.supply is None else bench.supply.open_circuit_voltage
-    return CurveData(pd, np.asarray(vb), fitted, (pd_min / scale, v_min), supply, notes, upper)
+    return CurveData(pd, np.asarray(vb), fitted, (pd_min, v_min), supply, notes, upper)
 
 
 def constant_sources(bench: Bench) -> list[tuple[str, str, str]]:
     """(what, value, source) of every constant the report's curve uses, as ``strikeline gases`` cites them."""
     from ..model import mixture as mx
+    from ..model.ionisation import TD_PER_V_PER_PA_M
 
-    gases = [bench.gas] if bench.mixture is None else [c.gas for c in bench.mixture.components]
     rows = []
-    for g in gases:
-        c = g.constants
-        rows.append((f"{g.key}: A, B", f"A {c.A:.4g} 1/(Pa m), B {c.B:.4g} V/(Pa m)", c.source))
+    for g in bench.fill.gases:
+        for seg in g.ionisation.segments:
+            span = f"{seg.low * TD_PER_V_PER_PA_M:.0f}-{seg.high * TD_PER_V_PER_PA_M:.0f} Td"
+            form = "A exp(-B/y)" if seg.power == 1.0 else "A exp(-sqrt(B/y))"
+            rows.append((f"{g.key}: alpha/p, {span}", f"{form}, A {seg.A:.4g} 1/(Pa m), B {seg.B:.4g} V/(Pa m)",
+                         seg.source))  # fmt: skip
         if g.attachment is not None:
             rows.append((f"{g.key}: attachment", "eta/N", g.attachment.source))
         if g.law is not None:
             rows.append((f"{g.key}: high pd", "uniform-field law", g.law.source))
-        y = bench.cathode.yield_for(g) if bench.gamma is None else None
+        y = bench.cathode.yield_for(g, bench.gamma_model) if bench.gamma is None else None
         if y is not None:
             rows.append(
                 (f"{bench.cathode.key} in {g.key}: gamma", f"{y.value:.3g} ({y.low:.2g}-{y.high:.2g})", y.source)
             )
     if bench.gamma is not None:
         rows.append(("gamma", f"{bench.gamma:.3g}", "bench profile"))
-    if bench.mixture is not None:
+    if not bench.fill.pure:
         rows += [("mixing", rule, "stated assumption") for rule in mx.ASSUMPTIONS]
     cv = bench.curve
     if cv is not None:
-        value = f"A {cv.A:.4g}, B {cv.B:.4g}, gamma {cv.gamma:.3g}"
+        value = f"scales: ionisation {cv.alpha_scale:.3g}, field {cv.field_scale:.3g}, gamma {cv.gamma_scale:.3g}"
         rows.append(("bench curve", value, f"fitted {cv.fitted_on} from {cv.n_points} strikes"))
     return rows

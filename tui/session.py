@@ -221,8 +221,9 @@ class Session:
     def _use_fill(self, fill: Fill, source: str) -> None:
         self.bench = with_fill(self.bench, fill)
         self.fill_source = source
-        what = fill.mixture or fill.gas
-        self.gauges = {ch: c if c.overridden else gauge_correction(c.kind, what) for ch, c in self.gauges.items()}
+        self.gauges = {
+            ch: c if c.overridden else gauge_correction(c.kind, fill.composition) for ch, c in self.gauges.items()
+        }
         if self.logbook is not None:
             flows = {g.key: q for g, q in fill.flows}
             note = STEADY_STATE if source == "flows" else ""

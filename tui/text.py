@@ -155,9 +155,9 @@ def fill_label(bench) -> str:
     >>> fill_label(with_fill(load_bench("demo").bench, read_fill("argon:40 sccm,oxygen:8 sccm")))
     'Ar 83%+O2 17%'
     """
-    if bench.mixture is None:
+    if bench.fill.pure:
         return bench.gas.symbol
-    return "+".join(f"{c.gas.symbol} {100 * c.fraction:.2g}%" for c in bench.mixture.components)
+    return "+".join(f"{c.gas.symbol} {100 * c.fraction:.2g}%" for c in bench.fill.components)
 
 
 def supply_label(supply, convention: str = "peak") -> str:

@@ -153,8 +153,7 @@ def bench_and_flows(args: argparse.Namespace, *, need_gap: bool):
         gap = getattr(args, "gap", None)
         if need_gap and gap is None:
             raise UsageError(f"strikeline {args.verb}: --gap needed without --bench, e.g. --gap 40mm")
-        bench = Bench(name="command line", gas=fill.gas, cathode=find_cathode(args.cathode), gap=gap or 1.0)
-        bench = with_fill(bench, fill)
+        bench = Bench(name="command line", fill=fill.composition, cathode=find_cathode(args.cathode), gap=gap or 1.0)
     gamma = getattr(args, "gamma", None)  # verbs without the option (fit) simply have none
     if gamma is not None:
         bench = replace(bench, gamma=gamma)
@@ -200,20 +199,16 @@ def cmd_strike(args: argparse.Namespace) -> int:
 def cmd_curve(args: argparse.Namespace) -> int:
     import numpy as np
 
-    from ...model.breakdown import alternating_law, breakdown_law
-    from ...model.forecast import with_bench_curve
+    from ...model.curve import curve_of, frequency_of
+    from ...model.forecast import law_name
 
-    given = bench_for(args, need_gap=args.frequency is not None)
-    bench, fitted = with_bench_curve(given)  # a fitted curve stands for the fill it was fitted in
-    s = bench.supply
-    freq = args.frequency if args.frequency is not None else s.frequency if s is not None and s.mode == "ac" else None
+    bench = bench_for(args, need_gap=args.frequency is not None)
+    freq = frequency_of(bench, args.frequency)
     gap = args.gap  # a pd sweep unless --gap is given, even with a bench...
     if gap is None and (bench.magnetic_field is not None or freq is not None):
         gap = bench.gap  # ...but a magnetised cathode's effective pressure needs p itself, and an AC curve w d
-    magnetised = bench.magnetic_field is not None and freq is None
-    law = breakdown_law(bench) if freq is None else alternating_law(bench, freq, gap)
-    scale = law.reference_temperature / bench.gas_temperature
-    pd_min, _ = law.minimum()
+    c = curve_of(bench, frequency=freq, gap=gap if gap is not None else bench.gap)
+    pd_min, _ = c.minimum
     what = "pressure" if gap is not None else "pd"
 
     def read(text: str | None, default: float, option: str) -> float:
@@ -228,8 +223,7 @@ def cmd_curve(args: argparse.Namespace) -> int:
         return check(pd, "pd", label=option, text=text)
 
     # Defaults span two decades either side of the minimum, in actual (not reduced) units.
-    lo_default = pd_min / scale / 100
-    hi_default = pd_min / scale * 100
+    lo_default, hi_default = pd_min / 100, pd_min * 100
     if gap is not None:
         lo_default, hi_default = lo_default / gap, hi_default / gap
     lo = read(args.start, lo_default, "--from")
@@ -238,21 +232,16 @@ def cmd_curve(args: argparse.Namespace) -> int:
         raise UsageError(
             f"strikeline curve: --from must be below --to (got {lo:g} and {hi:g} {'Pa' if gap else 'Pa m'})"
         )
-    from ...model.forecast import effective_pressure, law_name
-
     xs = np.geomspace(lo, hi, args.points)
     pd = xs * gap if gap is not None else xs
-    rpd = pd * scale
-    if magnetised:
-        p_eff, _hall = effective_pressure(xs, bench.gas_temperature, bench)
-        rpd = p_eff * gap * scale
-    vb, w = law.voltage(rpd)
-    br = law.branch(rpd)
-    if freq is None:
-        regimes, upper = np.full(np.shape(vb), "dc"), np.full(np.shape(vb), np.nan)
+    rpd = c.reduced(xs, gap)[0] if gap is not None else pd * c.scale
+    vb, w = c.law.voltage(rpd)
+    br = c.law.branch(rpd)
+    if c.alternating:
+        regimes, upper = c.law.regimes(rpd), c.law.upper(rpd)
     else:
-        regimes, upper = law.regimes(rpd), law.upper(rpd)
-    fixed_name = "alternating" if freq is not None else "mixture" if law.mixture is not None else None
+        regimes, upper = np.full(np.shape(vb), "dc"), np.full(np.shape(vb), np.nan)
+    fixed_name = "alternating" if c.alternating else None
     out = sys.stdout
     cols = (["pressure_Pa", "gap_m"] if what == "pressure" else []) + [
         "pd_Pa_m",
@@ -265,8 +254,8 @@ def cmd_curve(args: argparse.Namespace) -> int:
         "regime",
         "upper_V",
     ]
-    source = "bench-curve" if fitted is not None else ("mixed" if given.mixture is not None else "textbook")
-    gas = f'"{given.composition}"' if "," in given.composition else given.composition  # CSV quoting
+    source = "bench-curve" if c.fitted is not None else ("mixed" if not bench.fill.pure else "textbook")
+    gas = f'"{bench.composition}"' if "," in bench.composition else bench.composition  # CSV quoting
     out.write(",".join(cols) + "\n")
     for i in range(len(xs)):
         v = "" if not np.isfinite(vb[i]) else f"{vb[i]:.10g}"
@@ -275,7 +264,7 @@ def cmd_curve(args: argparse.Namespace) -> int:
             f"{rpd[i]:.10g}",
             v,
             str(br[i]),
-            fixed_name or law_name(w[i]),
+            fixed_name or law_name(w[i], bench.fill.pure),
             source,
             gas,
             str(regimes[i]),

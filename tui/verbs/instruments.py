@@ -112,9 +112,9 @@ def sim_ports(profile):
     from ...profiles.loader import gauge_correction, load_bench
 
     b = profile.bench
-    corr = gauge_correction("thermal", b.gas)
+    corr = gauge_correction("thermal", b.fill)
     if corr.factor is None:  # no thermal factor known for this gas: simulate a diaphragm gauge
-        corr = gauge_correction("capacitance", b.gas)
+        corr = gauge_correction("capacitance", b.fill)
     volts = b.supply.open_circuit_voltage if b.supply else 1200.0
     url = (
         f"simbench://{quote(b.name)}?seed=1&gauge_factor={corr.factor:g}&setpoint={b.pressure or 20.0:g}"
