@@ -47,10 +47,10 @@ def test_composition_follows_the_flows_with_partial_pressures_and_target(session
 def test_small_drifts_of_the_flows_keep_the_fill_in_use(session):
     _feed(session, 0.0, 40.0, 8.0)
     session.view(0.1)
-    held = session.bench.mixture
+    held = session.bench.fill
     _feed(session, 0.2, 40.0, 8.02)  # oxygen share moves by 0.03 %: held
     session.view(0.3)
-    assert session.bench.mixture is held
+    assert session.bench.fill is held
     _feed(session, 0.4, 40.0, 12.0)  # 16.7 % -> 23.1 %: a new fill
     session.view(0.5)
     assert session.bench.composition == "argon:76.92,oxygen:23.08"

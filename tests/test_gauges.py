@@ -3,6 +3,7 @@
 import json
 
 import pytest
+from strikeline.model.composition import pure
 from strikeline.model.gauges import GaugeCorrection, correct
 from strikeline.profiles.loader import find_gas, gauge_correction
 from strikeline.tui import cli
@@ -18,32 +19,32 @@ THERMAL = {"Ar": (1.6, 1.7), "He": (0.8, 0.8), "H2": (0.5, 0.5), "Ne": (1.4, 1.4
 
 @pytest.mark.parametrize(("gas", "s"), IONISATION.items())
 def test_ionisation_correction_is_one_over_the_relative_sensitivity(gas, s):
-    c = gauge_correction("ionisation", find_gas(gas))
+    c = gauge_correction("ionisation", pure(find_gas(gas)))
     assert c.factor == pytest.approx(1 / s, rel=0.005)
     assert correct(1e-4, c)[0] == pytest.approx(1e-4 / s, rel=0.005)
 
 
 @pytest.mark.parametrize(("gas", "band"), THERMAL.items())
 def test_thermal_gauge_factors_in_their_linear_range(gas, band):
-    c = gauge_correction("thermal", find_gas(gas))
+    c = gauge_correction("thermal", pure(find_gas(gas)))
     assert band[0] - 1e-9 <= c.factor <= band[1] + 1e-9
     true, approx = correct(10.0, c)
     assert true == pytest.approx(10.0 * c.factor) and not approx
 
 
 def test_thermal_gauge_outside_its_linear_range_is_approximate():
-    c = gauge_correction("thermal", find_gas("Ar"))
+    c = gauge_correction("thermal", pure(find_gas("Ar")))
     assert correct(500.0, c)[1] is True
 
 
 def test_capacitance_gauges_need_no_correction():
     for gas in ("Ar", "He", "air", "Xe"):
-        assert correct(3.0, gauge_correction("capacitance", find_gas(gas))) == (3.0, False)
+        assert correct(3.0, gauge_correction("capacitance", pure(find_gas(gas)))) == (3.0, False)
 
 
 def test_profile_override_and_missing_factor():
-    assert gauge_correction("thermal", find_gas("Ar"), override=1.7).factor == 1.7
-    missing = gauge_correction("thermal", find_gas("Xe"))
+    assert gauge_correction("thermal", pure(find_gas("Ar")), override=1.7).factor == 1.7
+    missing = gauge_correction("thermal", pure(find_gas("Xe")))
     assert missing.factor is None and correct(2.0, missing) == (2.0, True)
     assert correct(2.0, GaugeCorrection("ionisation", 0.5, None, "")) == (1.0, False)
 

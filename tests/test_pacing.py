@@ -179,7 +179,7 @@ async def test_a_moving_marker_repaints_a_few_rows_of_the_curve():
         painted = []
         show = plot.show_ansi
         plot.show_ansi = lambda picture: painted.append(show(picture)) or painted[-1]
-        app.session.set_value("pressure", "60 Pa")  # the marker moves along the curve
+        app.session.set_value("pressure", "100 Pa")  # the marker moves along the curve
         app.refresh_view()
         app.redraw_plot()
         assert len(painted) == 1 and 0 < painted[0] <= rows // 3, (painted, rows)

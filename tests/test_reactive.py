@@ -1,10 +1,9 @@
 """Reactive sputtering: gas balance and target mode, charging of the target's film, gauges in a
 mixture, and the profile sections and options that feed them.
 
-Outside sources: scipy.constants (epsilon_0, atm); Robertson, Eur. Phys. J. Appl. Phys. 28, 265
-(2004), Table 1 (eps_r, found quoted); McPherson, World J. Condensed Matter Phys. 6, 152 (2016)
-(SiO2 about 10 MV/cm at 50 nm, found); the CRC Handbook's ionisation-gauge sensitivities (gauges.toml,
-found); ../shared/reference/check-values.md for the charging-time hand calculations.
+Outside sources: scipy.constants (epsilon_0, atm); [robertson-2004] Table 1 (eps_r, found quoted);
+[mcpherson-2016] (SiO2 about 10 MV/cm at 50 nm, found); the [crc-handbook]'s ionisation-gauge
+sensitivities (gauges.toml, found); ../shared/reference/check-values.md for the charging-time hand calculations.
 """
 
 import csv
@@ -119,10 +118,9 @@ def test_forecast_gives_partial_pressures_target_and_charging():
     fill = read_fill("argon:40 sccm,oxygen:8 sccm")
     bench = Bench(
         "t",
-        fill.gas,
+        fill.composition,
         find_cathode("Al"),
         0.06,
-        mixture=fill.mixture,
         supply=Supply(650.0, 2.0, 5.0, "pulsed", 50e3, 4e-6),
         cathode_area=44e-4,
         pumping_speed=0.25,
@@ -143,19 +141,19 @@ def test_forecast_gives_partial_pressures_target_and_charging():
 def test_ionisation_gauge_in_argon_oxygen_by_hand():
     # S = 0.8 x 1.4 (Ar) + 0.2 x 0.96 (O2) = 1.312 (CRC Handbook sensitivities, gauges.toml; mole-
     # fraction weighting, common practice): true = indicated / 1.312.
-    corr = gauge_correction("ionisation", read_fill("argon:80,oxygen:20").mixture)
+    corr = gauge_correction("ionisation", read_fill("argon:80,oxygen:20").composition)
     assert corr.factor == pytest.approx(1 / (0.8 * 1.4 + 0.2 * 0.96), rel=1e-12)
     assert correct(1e-2, corr) == (pytest.approx(1e-2 / 1.312, rel=1e-12), False)
 
 
 def test_thermal_gauge_in_a_mixture_is_shown_uncorrected_and_approximate():
-    corr = gauge_correction("thermal", read_fill("argon:80,oxygen:20").mixture)
+    corr = gauge_correction("thermal", read_fill("argon:80,oxygen:20").composition)
     assert corr.factor is None and "mixture" in corr.source
     assert correct(10.0, corr) == (10.0, True)
 
 
 def test_capacitance_gauge_reads_any_mixture_truly():
-    assert gauge_correction("capacitance", read_fill("argon:80,oxygen:20").mixture).factor == 1.0
+    assert gauge_correction("capacitance", read_fill("argon:80,oxygen:20").composition).factor == 1.0
 
 
 # -- profile sections ------------------------------------------------------------------------
@@ -224,7 +222,7 @@ def test_bad_mixture_profiles_are_one_line(gas, rest, needle):
 
 def test_reactive_demo_loads_with_flows_film_and_a_mixture():
     p = load_bench("demo-reactive")
-    assert p.bench.mixture is not None and set(p.flows) == {"argon", "oxygen"}
+    assert not p.bench.fill.pure and set(p.flows) == {"argon", "oxygen"}
     assert p.bench.film.name == "Al2O3" and p.bench.pumping_speed == pytest.approx(0.25)
 
 

@@ -167,6 +167,7 @@ def test_nothing_is_nan_on_screen_for_a_no_breakdown_point():
     from strikeline.tui.session import Session
 
     s = Session(load_bench("demo"), manual=True)
+    s.set_gas("N2")  # nitrogen's curve has a left end (argon's left branch rises without one)
     s.set_value("pressure", "1 Pa")
     v = s.view(0.0)
     text = " ".join(value for _, value, _ in readout_lines(v, "SI", "pressure", s.values["gap"], s.values["voltage"]))
@@ -240,13 +241,14 @@ def test_the_key_line_fits_80_columns():
     assert len(KEY_HINTS) <= 80
 
 
-def test_a_point_left_of_the_asymptote_stays_on_the_curve():
+def test_a_point_left_of_the_curves_end_stays_on_the_curve():
     # The panel's maths are plain functions: no screen needed.
     from strikeline.tui.curve_panel import live_curve
     from strikeline.tui.session import Session
 
     s = Session(load_bench("demo"), manual=True)
-    s.set_value("pressure", "3 Pa")  # far left of argon's asymptote at 30 mm
+    s.set_gas("N2")
+    s.set_value("pressure", "3 Pa")  # far left of nitrogen's left end at 30 mm
     view = s.view(0.0)
     assert view.forecast.breakdown_voltage is None
     _key, inputs = live_curve(s.bench, s.values, view, "SI", 60, 20, colour=False)
@@ -403,7 +405,8 @@ async def test_a_unit_switch_changes_every_pressure_in_the_flags():
 
     app = make_app(load_bench("demo"), manual=True, log=False, show_caution=False)
     async with app.run_test(size=(80, 24)) as pilot:
-        app.session.set_value("pressure", "3 Pa")  # left of the asymptote: a pressure and pds in the flag
+        app.session.set_gas("N2")
+        app.session.set_value("pressure", "3 Pa")  # left of nitrogen's curve: a pressure and pds in the flag
         app.refresh_view()
         await pilot.pause()
         assert any(re.search(r"\d Pa\b", row) for row in screen_rows(app))
