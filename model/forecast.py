@@ -22,7 +22,6 @@ from .curve import Curve, curve_of
 from .flags import (
     MIXTURE_UNCERTAINTY,
     OUTSIDE_DATA_UNCERTAINTY,
-    RAETHER_ALPHA_D,
     STREAMER_CHECK_PD,
     TD_PER_V_PER_PA_M,
     curve_flags,
@@ -35,19 +34,13 @@ from .flags import (
 )
 from .reactive import reactive_results
 from .regime import glow_after_ignition
-from .results import LEVELS, Afterglow, Flag, Forecast, StrayResult, finite_or_none
+from .results import Flag, Forecast, finite_or_none
 from .stray import left_branch_flags, stray_flags, stray_gaps
 
 __all__ = [
-    "LEVELS",
     "MAGNETISED_UNCERTAINTY",
-    "RAETHER_ALPHA_D",
     "TEXTBOOK_UNCERTAINTY",
     "UNIFORM_FIELD_UNCERTAINTY",
-    "Afterglow",
-    "Flag",
-    "Forecast",
-    "StrayResult",
     "forecast",
     "law_name",
 ]

@@ -18,12 +18,11 @@ from __future__ import annotations
 
 import math
 from collections.abc import Mapping
-from dataclasses import dataclass
 
 from . import constants as _c
 from .bench import Bench, OperatingPoint
 from .gas import Film, Gas
-from .results import Flag
+from .results import Charging, Flag, TargetMode
 
 __all__ = [
     "METAL_ABOVE",
@@ -51,25 +50,6 @@ BALANCE_SLACK = 1.5
 """The gauge may read up to this factor above every gas's Q/S, or below the inert gases' Q/S by it,
 before the gas balance is called off (gauge calibration and pumping speed are rarely better than
 that; our judgement)."""
-
-
-@dataclass(frozen=True)
-class TargetMode:
-    """Where a reactive process stands, from its gas balance."""
-
-    reactive: tuple[str, ...]
-    """The reactive gases let in."""
-    expected: float
-    """Their partial pressure if nothing consumed them, sum of Q/S, Pa."""
-    measured: float
-    """Their partial pressure now: total pressure minus the inert gases' Q/S, Pa."""
-    consumed: float
-    """Fraction of the reactive gas the target takes, 0 to 1."""
-    mode: str
-    """"metal", "transition", "poisoned"; "unclear" when the gauge and the flows disagree, "unresolved"
-    when the reactive gas is too small a share of the pressure to judge."""
-    inert: float = 0.0
-    """The inert gases' partial pressure Q/S, Pa."""
 
 
 def target_mode(pressure: float, flows: Mapping[Gas, float], speed: float) -> TargetMode | None:
@@ -161,19 +141,6 @@ def charging_time(eps_r: float, strength: float, j: float) -> float:
     3.45
     """
     return _c.epsilon_0 * eps_r * strength / j
-
-
-@dataclass(frozen=True)
-class Charging:
-    """How fast a film on the target charges to breakdown, and whether the supply lets it."""
-
-    film: str
-    current_density: float
-    """Ion current density on the film, A/m^2."""
-    time: float
-    """Shortest charging time (the film's low eps_r and strength), s."""
-    on_time: float | None
-    """The supply's on-time per pulse, s (None: DC, always on)."""
 
 
 def charging_flags(

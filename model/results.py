@@ -11,15 +11,16 @@ from typing import TYPE_CHECKING, Any
 
 if TYPE_CHECKING:
     from .glow import LoadLine
-    from .reactive import Charging, TargetMode
 
 __all__ = [
     "LEVELS",
     "Afterglow",
     "Alternating",
+    "Charging",
     "Flag",
     "Forecast",
     "StrayResult",
+    "TargetMode",
     "finite_or_none",
     "json_safe",
 ]
@@ -40,6 +41,38 @@ class Flag:
     """One line with the numbers behind it."""
     method: str = ""
     """Where the method comes from."""
+
+
+@dataclass(frozen=True)
+class TargetMode:
+    """Where a reactive process stands, from its gas balance."""
+
+    reactive: tuple[str, ...]
+    """The reactive gases let in."""
+    expected: float
+    """Their partial pressure if nothing consumed them, sum of Q/S, Pa."""
+    measured: float
+    """Their partial pressure now: total pressure minus the inert gases' Q/S, Pa."""
+    consumed: float
+    """Fraction of the reactive gas the target takes, 0 to 1."""
+    mode: str
+    """"metal", "transition", "poisoned"; "unclear" when the gauge and the flows disagree, "unresolved"
+    when the reactive gas is too small a share of the pressure to judge."""
+    inert: float = 0.0
+    """The inert gases' partial pressure Q/S, Pa."""
+
+
+@dataclass(frozen=True)
+class Charging:
+    """How fast a film on the target charges to breakdown, and whether the supply lets it."""
+
+    film: str
+    current_density: float
+    """Ion current density on the film, A/m^2."""
+    time: float
+    """Shortest charging time (the film's low eps_r and strength), s."""
+    on_time: float | None
+    """The supply's on-time per pulse, s (None: DC, always on)."""
 
 
 @dataclass(frozen=True)

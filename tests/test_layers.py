@@ -83,7 +83,7 @@ def test_the_resolver_reads_every_import_form(tmp_path):
     probe = tmp_path / "probe.py"
     probe.write_text(
         "import numpy\nfrom . import fields\nfrom ..model import units\nfrom ..drivers.port import PortReader\n"
-        "from strikeline.tui import app\n"
+        "from strikeline.tui.screen import build\n"
     )
     got = _imports(probe, ["strikeline", "profiles"])
     assert got == [
@@ -91,7 +91,7 @@ def test_the_resolver_reads_every_import_form(tmp_path):
         "strikeline.profiles.fields",
         "strikeline.model.units",
         "strikeline.drivers.port.PortReader",
-        "strikeline.tui.app",
+        "strikeline.tui.screen.build",
     ]
 
 
@@ -141,7 +141,7 @@ def test_model_loads_neither_textual_nor_serial(module):
 
 def test_profiles_load_no_port_library():
     # The loader builds port specs without pyserial, pymodbus or pyvisa: they load when ports start.
-    loaded = _loaded_after_import("strikeline.profiles.loader")
+    loaded = _loaded_after_import("strikeline.profiles.bench")
     for lib in ("serial", "pymodbus", "pyvisa"):
         assert not any(m == lib or m.startswith(lib + ".") for m in loaded), lib
 
@@ -158,11 +158,11 @@ def test_screen_start_up_leaves_scipy_numpy_and_serial_out():
     # or pyserial. They load with the first reading, picture, fit or port.
     code = (
         "import sys\n"
-        "from strikeline.profiles.loader import load_bench\n"
-        "from strikeline.tui.session import Session\n"
-        "import strikeline.tui.app\n"
+        "from strikeline.profiles.bench import load_bench\n"
+        "from strikeline.tui.session.session import Session\n"
+        "import strikeline.tui.screen.build\n"
         "s = Session(load_bench('demo'))\n"
-        "assert s.view(0.0).withdrawn\n"
+        "assert s.update(0.0).withdrawn\n"
         "print('\\n'.join(sorted(sys.modules)))"
     )
     r = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=60, check=True)
@@ -178,8 +178,8 @@ def test_the_live_screens_first_frame_waits_for_no_heavy_import():
     code = (
         "import asyncio, sys\n"
         "import textual.app\n"
-        "from strikeline.profiles.loader import load_bench\n"
-        "from strikeline.tui.app import make_app\n"
+        "from strikeline.profiles.bench import load_bench\n"
+        "from strikeline.tui.screen.build import make_app\n"
         "first = []\n"
         "shown = textual.app.App._display\n"
         "def display(self, screen, update):\n"
@@ -201,6 +201,15 @@ def test_the_live_screens_first_frame_waits_for_no_heavy_import():
     r = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=60)
     assert r.returncode == 0, r.stderr[-2000:]
     loaded = set(r.stdout.split())
-    assert "strikeline.tui.screen" in loaded
-    for heavy in ("numpy", "scipy", "plotext", "matplotlib", "serial", "pymodbus", "pyvisa", "strikeline.tui.dialogs"):
+    assert "strikeline.tui.screen.live" in loaded
+    for heavy in (
+        "numpy",
+        "scipy",
+        "plotext",
+        "matplotlib",
+        "serial",
+        "pymodbus",
+        "pyvisa",
+        "strikeline.tui.screen.dialogs",
+    ):
         assert not any(m == heavy or m.startswith(heavy + ".") for m in loaded), heavy

@@ -35,8 +35,7 @@ def gases_json() -> dict[str, Any]:
     from ..model.flags import MIXTURE_UNCERTAINTY
     from ..model.ionisation import TD_PER_V_PER_PA_M
     from ..profiles.fill import films
-    from ..profiles.gasdata import sources
-    from ..profiles.loader import cathodes, gases
+    from ..profiles.gasdata import cathodes, gases, sources
 
     out_g = []
     for g in gases().values():

@@ -9,7 +9,7 @@ from ..model.units import format_value
 from .unitwords import SYSTEMS, in_units
 
 if TYPE_CHECKING:
-    from ..model.forecast import Forecast
+    from ..model.results import Forecast
 
 UNIT_SYSTEMS = SYSTEMS
 """The unit systems on offer (:mod:`.unitwords`)."""
@@ -151,7 +151,7 @@ def fill_label(bench) -> str:
     """The gas fill in a few characters: "Ar", or "Ar 83%+O2 17%" (percent to two figures).
 
     >>> from strikeline.profiles.fill import read_fill, with_fill
-    >>> from strikeline.profiles.loader import load_bench
+    >>> from strikeline.profiles.bench import load_bench
     >>> fill_label(with_fill(load_bench("demo").bench, read_fill("argon:40 sccm,oxygen:8 sccm")))
     'Ar 83%+O2 17%'
     """

@@ -39,8 +39,8 @@ def measure(quick: bool = False) -> dict[str, float]:
     from strikeline.drivers.logbook import Logbook, read_logbook
     from strikeline.drivers.reading import Reading, Status
     from strikeline.drivers.sim import Scenario, pressure_at, supply_at
-    from strikeline.profiles.loader import load_bench
-    from strikeline.tui.session import Session
+    from strikeline.profiles.bench import load_bench
+    from strikeline.tui.session.session import Session
 
     class Clock:
         t = 0.0
@@ -70,7 +70,7 @@ def measure(quick: bool = False) -> dict[str, float]:
             ):
                 session.handle(Reading(ch, q, x, Status.OK, f"{x:.4E}", t, 1.8e9 + t, "simulated"))
             if i % 5 == 0:  # the forecast twice a second, as `record` does
-                session.view(t)
+                session.update(t)
             if i % 36000 == 0:
                 book.sync()  # once an hour here; the real sync thread does it every second
             if i == warm:

@@ -112,8 +112,8 @@ def _in_process(quick: bool) -> dict[str, float]:
     import asyncio
     from dataclasses import replace
 
-    from strikeline.profiles.loader import load_bench
-    from strikeline.tui.app import make_app
+    from strikeline.profiles.bench import load_bench
+    from strikeline.tui.screen.build import make_app
 
     profile = load_bench("demo")
     port = profile.ports[0]

@@ -136,8 +136,9 @@ def bench_for(args: argparse.Namespace, *, need_gap: bool):
 def bench_and_flows(args: argparse.Namespace, *, need_gap: bool):
     """The bench the verb works on, and the flows --gas gave ((gas, Pa m^3/s), ...; empty for parts)."""
     from ...model.bench import Bench
+    from ...profiles.bench import load_bench
     from ...profiles.fill import read_fill, with_fill
-    from ...profiles.loader import find_cathode, load_bench
+    from ...profiles.gasdata import find_cathode
 
     fill = None if args.gas is None else read_fill(args.gas)
     if args.bench is not None:

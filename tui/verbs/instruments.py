@@ -109,7 +109,8 @@ def sim_ports(profile):
     thermal gauge under-reads by the bench gas's own factor, and is corrected by it."""
     from urllib.parse import quote
 
-    from ...profiles.loader import gauge_correction, load_bench
+    from ...profiles.bench import load_bench
+    from ...profiles.gauges import gauge_correction
 
     b = profile.bench
     corr = gauge_correction("thermal", b.fill)
@@ -127,8 +128,8 @@ def sim_ports(profile):
 
 def _profile(args: argparse.Namespace):
     """The bench profile, with the gas fill of --gas if given (the gauges' corrections follow it)."""
+    from ...profiles.bench import load_bench, with_profile_fill
     from ...profiles.fill import read_fill
-    from ...profiles.loader import load_bench, with_profile_fill
 
     profile = load_bench(args.bench)
     return profile if args.gas is None else with_profile_fill(profile, read_fill(args.gas))
@@ -136,7 +137,7 @@ def _profile(args: argparse.Namespace):
 
 def cmd_live(args: argparse.Namespace) -> int:
     from ...drivers.logbook import refuse_foreign
-    from ..app import make_app
+    from ..screen.build import make_app
 
     profile = _profile(args)
     replay = None
@@ -235,7 +236,7 @@ def cmd_record(args: argparse.Namespace) -> int:
     from ...drivers.hub import Instruments
     from ...drivers.logbook import Logbook
     from ..locations import new_logbook_path
-    from ..session import Session
+    from ..session.session import Session
 
     profile = _profile(args)
     if not profile.ports:
@@ -275,7 +276,7 @@ def cmd_record(args: argparse.Namespace) -> int:
                 answered += item.answered
                 session.handle(item)
             if time.monotonic() >= next_view:
-                session.view()
+                session.update()
                 next_view = time.monotonic() + 0.5
             if errors and errors[-1] != shown_error:
                 shown_error = errors[-1]

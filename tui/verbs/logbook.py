@@ -88,8 +88,8 @@ def add_report(sub) -> None:
 def cmd_report(args: argparse.Namespace) -> int:
     from pathlib import Path
 
-    from ...profiles.loader import load_bench
-    from ..report import check_report_target, write_report
+    from ...profiles.bench import load_bench
+    from ..report.write import check_report_target, write_report
     from .parser import SAFETY
 
     out = args.out if args.out is not None else str(Path(args.path).with_suffix(".html"))
@@ -116,7 +116,7 @@ def cmd_report(args: argparse.Namespace) -> int:
 def cmd_fit(args: argparse.Namespace) -> int:
     from ...model.calibration import FitRefused
     from ...model.composition import same_composition
-    from ...profiles.loader import save_curve
+    from ...profiles.bench import save_curve
     from ...profiles.strikes import read_strike_csv
     from ..calibrate import calibrate, calibration_json, calibration_text, dc_like, parse_free
 
@@ -165,8 +165,8 @@ def cmd_fit(args: argparse.Namespace) -> int:
 def _figure_target(given: str, save: str | None):
     from pathlib import Path
 
-    from ..report import check_report_target
-    from ..report_figures import FIGURE_FORMATS
+    from ..report.figures import FIGURE_FORMATS
+    from ..report.write import check_report_target
 
     if not given:
         if save is None:
@@ -182,8 +182,8 @@ def _draw_fit(bench, cal, pts, path) -> None:
 
     import numpy as np
 
-    from ..report_data import curve_data
-    from ..report_figures import fit_figure, save
+    from ..report.data import curve_data
+    from ..report.figures import fit_figure, save
 
     marks = [(p * d, v) for p, d, v, _t in pts]
     fitted = replace(bench, curve=cal.result.curve)
@@ -193,7 +193,7 @@ def _draw_fit(bench, cal, pts, path) -> None:
 
 
 def _check_bench_to_save(path: str) -> None:
-    from ...profiles.loader import BUILTIN_BENCHES, load_bench
+    from ...profiles.bench import BUILTIN_BENCHES, load_bench
 
     if path in BUILTIN_BENCHES:
         raise UsageError(f"--save {path!r}: a built-in bench cannot be changed; copy it to a file and save there")
@@ -206,7 +206,7 @@ def cmd_log(args: argparse.Namespace) -> int:
     import io
 
     from ..logread import read_log, skipped_text
-    from ..logsummary import STRIKE_COLUMNS, strike_rows, summarise
+    from ..report.summary import STRIKE_COLUMNS, strike_rows, summarise
     from ..text import log_summary_text
 
     header = ",".join(STRIKE_COLUMNS)

@@ -58,7 +58,7 @@ def channel_where(c: Any) -> str:
 
 def cmd_ports(args: argparse.Namespace) -> int:
     from ...drivers.hub import Instruments
-    from ...profiles.loader import load_bench
+    from ...profiles.bench import load_bench
 
     profile = load_bench(args.bench)
     if not profile.ports:

@@ -1,0 +1,1 @@
+"""The shift report of a logbook: what it gathers, its figures and its page."""

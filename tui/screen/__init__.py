@@ -1,0 +1,1 @@
+"""The live tuning screen (Textual): the app, its panels, keys and dialogs."""

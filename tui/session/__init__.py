@@ -1,0 +1,1 @@
+"""The session: what wires the instruments and the typed values to the model, and logs them."""
