@@ -170,7 +170,8 @@ def gauge_to_glass(
                         latencies.append(math.inf)  # the last new value never reached the screen
                     k += 1
                     value = 10.0 + (k * 37 % 900) / 10.0  # never the same twice in 900 steps
-                shown = value if step else value * (1 + 0.002 * rng.gauss(0, 1))
+                # exact until the first value is on the screen (noise could show it as 9.99), then noisy
+                shown = value if step or started is None else value * (1 + 0.002 * rng.gauss(0, 1))
                 written = time.perf_counter()
                 os.write(g_master, f"P={shown:.4g}\n".encode())
                 if step:
