@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from .alternating import ALTERNATING_UNCERTAINTY
 from .bench import OperatingPoint
-from .results import Alternating, Flag, finite_or_none
+from .results import Alternating, Flag, finite_or_none, flag, q
 
 __all__ = ["WAVELENGTH_FRACTION", "ac_result", "not_applicable"]
 
@@ -70,34 +70,40 @@ def _flags(r: Alternating, point: OperatingPoint, V: float | None) -> list[Flag]
     swept = V is not None and r.upper_voltage is not None and V > r.upper_voltage
     if swept and (r.dc_like_voltage is None or V < r.dc_like_voltage):  # nor does the gamma mechanism strike
         flags.append(
-            Flag(
+            flag(
                 "above_upper_branch",
                 "watch",
-                f"{V:.0f} V is above the upper branch ({r.upper_voltage:.0f} V) at this pressure: the electrons' "
-                "swing sweeps them onto the electrodes each half period, so more voltage does not strike it; "
-                "raise the pressure or lower the voltage",
+                "{V} is above the upper branch ({upper}) at this pressure: the electrons' swing sweeps them onto the "
+                "electrodes each half period, so more voltage does not strike it; raise the pressure or lower the "
+                "voltage",
                 method,
+                V=q(V, "voltage", "V", ".0f", "supply amplitude"),
+                upper=q(r.upper_voltage, "voltage", "V", ".0f", "upper branch voltage"),
             )
         )
     if r.turning_pressure is not None and point.pressure < r.turning_pressure and r.regime in ("none", "intermediate"):
         flags.append(
-            Flag(
+            flag(
                 "below_turning_point",
                 "watch",
-                f"the pressure is below the turning point of the RF curve ({r.turning_pressure:.3g} Pa at this gap): "
-                "no volume breakdown exists here at any voltage; raise the pressure above it",
+                "the pressure is below the turning point of the RF curve ({turning} at this gap): no volume "
+                "breakdown exists here at any voltage; raise the pressure above it",
                 method,
+                turning=q(r.turning_pressure, "pressure", "Pa", what="turning-point pressure"),
             )
         )
     wavelength = _C_LIGHT / r.frequency
     if point.gap > WAVELENGTH_FRACTION * wavelength:
         flags.append(
-            Flag(
+            flag(
                 "gap_vs_wavelength",
                 "watch",
-                f"the gap ({point.gap * 1e3:.3g} mm) is over {WAVELENGTH_FRACTION:.0%} of the wavelength "
-                f"({wavelength:.3g} m at {f}): the field is no longer uniform and this forecast does not hold",
+                "the gap ({gap}) is over {share} of the wavelength ({wavelength} at " + f + "): the field is no "
+                "longer uniform and this forecast does not hold",
                 "lumped-circuit limit (common practice)",
+                gap=q(point.gap, "length", "mm", what="gap"),
+                share=q(WAVELENGTH_FRACTION, "fraction", "%", ".0%", "largest share of the wavelength"),
+                wavelength=q(wavelength, "length", "m", what="free-space wavelength"),
             )
         )
     return flags

@@ -10,7 +10,7 @@ from __future__ import annotations
 import math
 
 from .bench import Bench, OperatingPoint
-from .results import Afterglow, Flag
+from .results import Afterglow, Flag, flag, q
 
 __all__ = [
     "BESSEL_J0_FIRST_ZERO",
@@ -109,19 +109,24 @@ def afterglow_between_pulses(point: OperatingPoint, bench: Bench) -> tuple[After
         f"({gas.ion_mobility_source}); cylinder diffusion length"
     )
     if resid >= 0.1:
-        flag = Flag(
+        judged = flag(
             "afterglow_carries_over",
             "ok",
-            f"decay time {tau * 1e6:.3g} us against a {off * 1e6:.3g} us off-time: {resid:.0%} of the charge is "
-            "left, so each pulse re-ignites easily",
+            "decay time {tau} against a {off} off-time: {left} of the charge is left, so each pulse re-ignites easily",
             method,
+            tau=q(tau, "time", "us", what="afterglow decay time"),
+            off=q(off, "time", "us", what="off-time between pulses"),
+            left=q(resid, "fraction", "%", ".0%", "charge left after the off-time"),
         )
     else:
-        flag = Flag(
+        judged = flag(
             "afterglow_lost",
             "watch",
-            f"decay time {tau * 1e6:.3g} us against a {off * 1e6:.3g} us off-time: only {resid:.1%} of the charge "
-            "is left, so each pulse must break the gap down afresh (expect ignition delay and jitter)",
+            "decay time {tau} against a {off} off-time: only {left} of the charge is left, so each pulse must "
+            "break the gap down afresh (expect ignition delay and jitter)",
             method,
+            tau=q(tau, "time", "us", what="afterglow decay time"),
+            off=q(off, "time", "us", what="off-time between pulses"),
+            left=q(resid, "fraction", "%", ".1%", "charge left after the off-time"),
         )
-    return result, [flag]
+    return result, [judged]

@@ -16,7 +16,7 @@ from .bench import Bench, BenchCurve
 from .composition import Composition
 from .gas import Gas, UniformFieldLaw
 from .ionisation import TD_PER_V_PER_PA_M
-from .results import Flag
+from .results import Flag, flag, q
 
 __all__ = [
     "MIXTURE_UNCERTAINTY",
@@ -73,14 +73,17 @@ def field_flags(bench: Bench, alternating: bool, hall: float | None, p_eff: floa
     if hall is None:
         return []
     return [
-        Flag(
+        flag(
             "crossed_field",
             "ok",
-            f"magnetised cathode ({bench.magnetic_field * 1e3:.3g} mT): omega_ce/nu_m = {hall:.3g}, effective "
-            f"pressure {p_eff:.3g} Pa for {pressure:.3g} Pa; an approximation that treats the whole gap "
-            "as if it sat in the cathode's field",
+            "magnetised cathode ({B}): omega_ce/nu_m = {hall}, effective pressure {p_eff} for {p}; an "
+            "approximation that treats the whole gap as if it sat in the cathode's field",
             "effective-pressure treatment of crossed E x B fields ([blevin-haydon-1958]; [raizer-1991] sec. 4.6, "
             "from memory)",
+            B=q(bench.magnetic_field, "field", "mT", what="magnetic field at the cathode"),
+            hall=q(hall, "number", "", what="omega_ce/nu_m"),
+            p_eff=q(p_eff, "pressure", "Pa", what="effective pressure"),
+            p=q(pressure, "pressure", "Pa", what="pressure"),
         )
     ]
 
@@ -95,12 +98,14 @@ def data_flags(fill: Composition, uncovered: Sequence[Gas], y: float | None, sou
             for g in uncovered
         )
         flags.append(
-            Flag(
+            flag(
                 "outside_fitted_range",
                 "watch",
-                f"breakdown here needs E/N {y * TD_PER_V_PER_PA_M:.3g} Td, outside the published ionisation data "
-                f"({ranges}): extrapolated, the band widened by {OUTSIDE_DATA_UNCERTAINTY:.0%}",
+                "breakdown here needs E/N {en}, outside the published ionisation data (" + ranges + "): "
+                "extrapolated, the band widened by {widened}",
                 sources,
+                en=q(y * TD_PER_V_PER_PA_M * 1e-21, "reduced_field", "Td", what="E/N at breakdown"),
+                widened=q(OUTSIDE_DATA_UNCERTAINTY, "fraction", "%", ".0%", what="band widened by"),
             )
         )
     for g in fill.gases:
@@ -140,41 +145,49 @@ def mixture_flags(
     flags: list[Flag] = []
     if not fill.pure:
         flags.append(
-            Flag(
+            flag(
                 "linear_mixing",
                 "ok",
-                f"{composition}: coefficients mixed by mole fraction; the breakdown band is widened by "
-                f"{MIXTURE_UNCERTAINTY:.0%} for it",
+                composition + ": coefficients mixed by mole fraction; the breakdown band is widened by {widened} "
+                "for it",
                 "; ".join(assumptions),
+                widened=q(MIXTURE_UNCERTAINTY, "fraction", "%", ".0%", what="band widened by"),
             )
         )
     for big, small in penning:
         flags.append(
-            Flag(
+            flag(
                 "penning",
                 "watch",
                 f"{big.key} with {small.key} is a Penning mixture: {big.key} metastables "
-                f"({big.metastable_energy:g} eV) ionise {small.key} ({small.ionisation_energy:g} eV), so it breaks "
+                "({metastable}) ionise " + small.key + " ({ionisation}), so it breaks "
                 "down well below this forecast; record strikes and fit this bench's own curve (strikeline fit)",
                 "Penning ionisation: a metastable level above the other gas's ionisation energy ([nist-asd], from "
                 "memory)",
+                metastable=q(big.metastable_energy * _c.e, "energy", "eV", "g", what="metastable level"),
+                ionisation=q(small.ionisation_energy * _c.e, "energy", "eV", "g", what="ionisation energy"),
             )
         )
     if critical is not None:
         td = critical * TD_PER_V_PER_PA_M
         near = e_over_p is not None and e_over_p < 1.3 * critical
+        extra = {}
+        if near:
+            extra["needs"] = q(e_over_p * TD_PER_V_PER_PA_M * 1e-21, "reduced_field", "Td", ".0f", "E/N at breakdown")
         flags.append(
-            Flag(
+            flag(
                 "attachment_limit",
                 "watch" if near else "ok",
-                f"electron attachment: below E/N {td:.0f} Td (alpha = eta) electrons attach faster than they multiply"
+                "electron attachment: below E/N {limit} (alpha = eta) electrons attach faster than they multiply"
                 + (
-                    f"; breakdown here needs {e_over_p * TD_PER_V_PER_PA_M:.0f} Td, close to that limit: a long gap "
-                    "breaks down near the limit field whatever its length"
+                    "; breakdown here needs {needs}, close to that limit: a long gap breaks down near the limit "
+                    "field whatever its length"
                     if near
                     else ""
                 ),
                 "Townsend criterion with attachment, gamma alpha/(alpha - eta) (exp((alpha - eta) d) - 1) = 1",
+                limit=q(td * 1e-21, "reduced_field", "Td", ".0f", "critical E/N (alpha = eta)"),
+                **extra,
             )
         )
     return flags
@@ -183,12 +196,15 @@ def mixture_flags(
 def no_breakdown_flag(rpd: float, pd0: float, raise_to: float) -> Flag:
     """No voltage breaks the gap down: reduced pd ``rpd`` (Pa m) is at or left of the curve's end
     ``pd0``; ``raise_to`` is the pressure (Pa) above which this gap can break down."""
-    return Flag(
+    return flag(
         "no_breakdown",
         "watch",
-        f"reduced pd {rpd:.3g} Pa m is at or left of the curve's left end {pd0:.3g} Pa m: "
-        f"no voltage breaks this gap down; raise the pressure above {raise_to:.3g} Pa",
+        "reduced pd {rpd} is at or left of the curve's left end {pd0}: no voltage breaks this gap down; raise "
+        "the pressure above {raise_to}",
         "Townsend criterion with the gas's ionisation and gamma",
+        rpd=q(rpd, "pd", "Pa m", what="reduced pd"),
+        pd0=q(pd0, "pd", "Pa m", what="reduced pd of the curve's left end"),
+        raise_to=q(raise_to, "pressure", "Pa", what="least pressure that breaks this gap down"),
     )
 
 
@@ -210,22 +226,25 @@ def validity_flags(
         x = rpd * (law.reference_temperature / T_ref) / law.reference_pressure
         if x > law.valid_to:
             flags.append(
-                Flag(
+                flag(
                     "outside_fitted_range",
                     "watch",
-                    f"delta d = {x / _c.centi:.3g} cm is beyond the {law.valid_to / _c.centi:.3g} cm "
-                    "the uniform-field law is used to: breakdown voltage extrapolated",
+                    "delta d = {x} is beyond the {valid_to} the uniform-field law is used to: breakdown voltage "
+                    "extrapolated",
                     law.source,
+                    x=q(x, "length", "cm", what="relative density times gap"),
+                    valid_to=q(law.valid_to, "length", "cm", what="end of the law's range"),
                 )
             )
         else:
             flags.append(
-                Flag(
+                flag(
                     "uniform_field_law",
                     "ok",
-                    f"delta d = {x / _c.centi:.3g} cm: the empirical uniform-field law for air is used "
+                    "delta d = {x}: the empirical uniform-field law for air is used "
                     f"({'blended with the Townsend law' if weight < 1 else 'alone'})",
                     law.source,
+                    x=q(x, "length", "cm", what="relative density times gap"),
                 )
             )
     return flags
@@ -234,22 +253,26 @@ def validity_flags(
 def curve_flags(cv: BenchCurve, rpd: float) -> list[Flag]:
     """The fitted bench curve is in use, and whether ``rpd`` (Pa m) lies where it was fitted."""
     flags = [
-        Flag(
+        flag(
             "bench_curve",
             "ok",
-            f"using this bench's curve (fitted {cv.fitted_on} to {cv.n_points} strikes, rms {cv.rms_residual:.0f} V) "
-            "in place of the default one",
+            f"using this bench's curve (fitted {cv.fitted_on} to {cv.n_points} strikes, rms {{rms}}) in place of the "
+            "default one",
             _CURVE_METHOD,
+            rms=q(cv.rms_residual, "voltage", "V", ".0f", "rms residual of the fit"),
         )
     ]
     if not cv.pd_low / 1.5 <= rpd <= cv.pd_high * 1.5:
         flags.append(
-            Flag(
+            flag(
                 "outside_fitted_range",
                 "watch",
-                f"reduced pd {rpd:.3g} Pa m is outside the {cv.pd_low:.3g} to {cv.pd_high:.3g} Pa m the bench curve "
-                "was fitted over: extrapolated; record strikes here",
+                "reduced pd {rpd} is outside the {low} to {high} the bench curve was fitted over: extrapolated; "
+                "record strikes here",
                 _CURVE_METHOD,
+                rpd=q(rpd, "pd", "Pa m", what="reduced pd"),
+                low=q(cv.pd_low, "pd", "Pa m", what="least reduced pd fitted", bare=True),
+                high=q(cv.pd_high, "pd", "Pa m", what="greatest reduced pd fitted"),
             )
         )
     return flags
@@ -277,33 +300,42 @@ def margin_flags(
     lo, hi = band
     if V >= vb and (hi is None or V >= hi):
         return [
-            Flag(
+            flag(
                 "strikes",
                 "ok",
-                f"{V:.0f} V is {V - vb:.0f} V ({(V - vb) / vb:+.0%}) above the {vb:.0f} V "
-                f"breakdown voltage, clear of its uncertainty band",
+                "{V} is {excess} ({share}) above the {vb} breakdown voltage, clear of its uncertainty band",
                 method,
+                V=q(V, "voltage", "V", ".0f", "supply voltage"),
+                excess=q(V - vb, "voltage", "V", ".0f", "margin"),
+                share=q((V - vb) / vb, "fraction", "%", "+.0%", "margin over the breakdown voltage"),
+                vb=q(vb, "voltage", "V", ".0f", "breakdown voltage"),
             )
         ]
     if lo is not None and V < lo:
         return [
-            Flag(
+            flag(
                 "below_breakdown",
                 "watch",
-                f"{V:.0f} V is {vb - V:.0f} V short of the {vb:.0f} V breakdown "
-                "voltage, below its whole uncertainty band: the gap will not strike",
+                "{V} is {short} short of the {vb} breakdown voltage, below its whole uncertainty band: the gap "
+                "will not strike",
                 method,
+                V=q(V, "voltage", "V", ".0f", "supply voltage"),
+                short=q(vb - V, "voltage", "V", ".0f", "shortfall"),
+                vb=q(vb, "voltage", "V", ".0f", "breakdown voltage"),
             )
         ]
     band_text = f"{'?' if lo is None else f'{lo:.0f}'}-{'?' if hi is None else f'{hi:.0f}'} V"
     verdict = "strike expected" if V >= vb else "no strike expected"
     return [
-        Flag(
+        flag(
             "marginal",
             "watch",
-            f"{V:.0f} V against a {vb:.0f} V breakdown voltage ({verdict}, margin "
-            f"{V - vb:+.0f} V) sits inside the model's uncertainty band {band_text}: it may or may not strike",
+            "{V} against a {vb} breakdown voltage (" + verdict + ", margin {margin}) sits inside the model's "
+            "uncertainty band " + band_text + ": it may or may not strike",
             method,
+            V=q(V, "voltage", "V", ".0f", "supply voltage"),
+            vb=q(vb, "voltage", "V", ".0f", "breakdown voltage"),
+            margin=q(V - vb, "voltage", "V", "+.0f", "margin"),
         )
     ]
 
@@ -317,32 +349,38 @@ def streamer_flags(V: float, vb: float | None, ad: float, rpd: float, weight: fl
     )
     if ad >= RAETHER_ALPHA_D:
         return [
-            Flag(
+            flag(
                 "spark",
                 "danger",
-                f"alpha d = {ad:.1f} at {V:.0f} V reaches the Raether-Meek threshold "
-                f"{RAETHER_ALPHA_D:.1f} (gain ~1e8): a streamer forms and the gap sparks rather than glows",
+                "alpha d = {ad} at {V} reaches the Raether-Meek threshold {limit} (gain ~1e8): a streamer forms "
+                "and the gap sparks rather than glows",
                 method,
+                ad=q(ad, "number", "", ".1f", "alpha d"),
+                V=q(V, "voltage", "V", ".0f", "supply voltage"),
+                limit=q(RAETHER_ALPHA_D, "number", "", ".1f", "Raether-Meek alpha d"),
             )
         ]
     if vb is not None and V >= vb and (rpd >= STREAMER_PD or weight >= 0.5):
         return [
-            Flag(
+            flag(
                 "spark",
                 "danger",
-                f"reduced pd {rpd:.3g} Pa m is in the streamer regime: breakdown "
-                "here is a spark channel that a low-impedance supply turns into an arc, not a glow",
+                "reduced pd {rpd} is in the streamer regime: breakdown here is a spark channel that a "
+                "low-impedance supply turns into an arc, not a glow",
                 method + "; streamer regime above ~200 Torr cm ([raizer-1991], from memory)",
+                rpd=q(rpd, "pd", "Pa m", what="reduced pd"),
             )
         ]
     if ad >= 0.75 * RAETHER_ALPHA_D:
         return [
-            Flag(
+            flag(
                 "streamer_near",
                 "watch",
-                f"alpha d = {ad:.1f} is within 25 % of the Raether-Meek threshold "
-                f"{RAETHER_ALPHA_D:.1f}: avalanches approach streamer size",
+                "alpha d = {ad} is within 25 % of the Raether-Meek threshold {limit}: avalanches approach streamer "
+                "size",
                 method,
+                ad=q(ad, "number", "", ".1f", "alpha d"),
+                limit=q(RAETHER_ALPHA_D, "number", "", ".1f", "Raether-Meek alpha d"),
             )
         ]
     return []

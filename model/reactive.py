@@ -22,7 +22,7 @@ from collections.abc import Mapping
 from . import constants as _c
 from .bench import Bench, OperatingPoint
 from .gas import Film, Gas
-from .results import Charging, Flag, TargetMode
+from .results import Charging, Flag, Quantity, TargetMode, flag, q
 
 __all__ = [
     "METAL_ABOVE",
@@ -85,50 +85,60 @@ def target_flags(m: TargetMode) -> list[Flag]:
         f"measured = total - inert gases' flow/speed; metal above {METAL_ABOVE:.0%} consumed, poisoned "
         f"below {POISONED_BELOW:.0%} (our thresholds)"
     )
-    took = (
-        f"the target takes {m.consumed:.0%} of the {gases} ({m.measured:.3g} Pa left of {m.expected:.3g} Pa expected)"
-    )
+    took = "the target takes {consumed} of the " + gases + " ({measured} left of {expected} expected)"
+    balance = {
+        "consumed": q(m.consumed, "fraction", "%", ".0%", "share of the reactive gas the target takes"),
+        "measured": q(m.measured, "pressure", "Pa", what="reactive partial pressure measured"),
+        "expected": q(m.expected, "pressure", "Pa", what="reactive partial pressure if nothing took it"),
+    }
     if m.mode == "unclear":
         return [
-            Flag(
+            flag(
                 "gas_balance_off",
                 "watch",
-                f"the gauge reads {m.measured + m.inert:.3g} Pa but the flows over the pumping speed give "
-                f"{m.inert:.3g} Pa of inert gas and {m.expected:.3g} Pa of {gases} at most: check the pumping speed "
-                "(a throttle valve?), the gauge's gas correction or a leak; the target mode is not judged",
+                "the gauge reads {total} but the flows over the pumping speed give {inert} of inert gas and "
+                "{expected} of " + gases + " at most: check the pumping speed (a throttle valve?), the gauge's gas "
+                "correction or a leak; the target mode is not judged",
                 method,
+                total=q(m.measured + m.inert, "pressure", "Pa", what="gauge reading"),
+                inert=q(m.inert, "pressure", "Pa", what="inert gases' partial pressure from the flows"),
+                expected=balance["expected"],
             )
         ]
     if m.mode == "unresolved":
         share = m.expected / (m.expected + m.inert)
         return [
-            Flag(
+            flag(
                 "target_unresolved",
                 "ok",
-                f"the {gases} is {share:.1%} of the expected pressure: a few per cent of error in the gauge or the "
-                f"pumping speed would hide what the target takes; the mode is judged from {RESOLVABLE:.0%} up",
+                "the " + gases + " is {share} of the expected pressure: a few per cent of error in the gauge or the "
+                "pumping speed would hide what the target takes; the mode is judged from {least} up",
                 method,
+                share=q(share, "fraction", "%", ".1%", "reactive share of the expected pressure"),
+                least=q(RESOLVABLE, "fraction", "%", ".0%", "least share the mode is judged from"),
             )
         ]
     if m.mode == "metal":
-        return [Flag("target_metal", "ok", f"metal mode: {took}", method)]
+        return [flag("target_metal", "ok", "metal mode: " + took, method, **balance)]
     if m.mode == "transition":
         return [
-            Flag(
+            flag(
                 "target_transition",
                 "watch",
-                f"transition mode: {took}; where it tips into poisoned mode the discharge voltage and the "
+                "transition mode: " + took + "; where it tips into poisoned mode the discharge voltage and the "
                 "deposition rate jump: hold the reactive flow steady",
                 method,
+                **balance,
             )
         ]
     return [
-        Flag(
+        flag(
             "target_poisoned",
             "watch",
-            f"poisoned mode: {took}; the target is covered with its film (slower deposition, arcs): "
+            "poisoned mode: " + took + "; the target is covered with its film (slower deposition, arcs): "
             f"less {gases} flow or more pumping brings it back",
             method,
+            **balance,
         )
     ]
 
@@ -162,40 +172,53 @@ def charging_flags(
         f"{film.strength[0]:.2g}-{film.strength[1]:.2g} V/m (the low ends: the shortest time; {film.source}); "
         "ion share of the current 1/(1 + gamma) (common practice)"
     )
-    lead = f"the {film.name} film on the target charges to breakdown in {_us(t)} under {j / 10:.3g} mA/cm^2 of ions"
+    lead = f"the {film.name} film on the target charges to breakdown in {{t}} under {{j}} of ions"
     half_duty = 1.0 / (2.0 * t)
+    said = {"t": _time(t, "charging time"), "j": q(j, "current_density", "mA/cm^2", what="ion current density")}
     if on_time is None:
         return result, [
-            Flag(
+            flag(
                 "charging_arcs",
                 "danger",
-                f"{lead}; a DC supply keeps charging it, so it arcs: pulse the supply with on-times under "
-                f"{_us(t)} (at 50 % duty, above {_hz(half_duty)})",
+                lead + "; a DC supply keeps charging it, so it arcs: pulse the supply with on-times under {t} (at "
+                "50 % duty, above {f})",
                 method,
+                f=_frequency(half_duty, "least pulse frequency at 50 % duty"),
+                **said,
             )
         ]
     if on_time > t:
         faster = 1.0 / (t + (off_time or t))
         return result, [
-            Flag(
+            flag(
                 "charging_arcs",
                 "watch",
-                f"{lead}, shorter than the {_us(on_time)} on-time: expect arcs; keep the on-time under {_us(t)} "
-                f"(with this off-time, pulse above {_hz(faster)})",
+                lead + ", shorter than the {on} on-time: expect arcs; keep the on-time under {t} (with this "
+                "off-time, pulse above {f})",
                 method,
+                on=_time(on_time, "on-time per pulse"),
+                f=_frequency(faster, "least pulse frequency with this off-time"),
+                **said,
             )
         ]
     return result, [
-        Flag("charging_held", "ok", f"{lead}, longer than the {_us(on_time)} on-time: each pulse ends first", method)
+        flag(
+            "charging_held",
+            "ok",
+            lead + ", longer than the {on} on-time: each pulse ends first",
+            method,
+            on=_time(on_time, "on-time per pulse"),
+            **said,
+        )
     ]
 
 
-def _us(t: float) -> str:
-    return f"{t * 1e6:.3g} us" if t < 1e-2 else f"{t * 1e3:.3g} ms" if t < 10 else f"{t:.3g} s"
+def _time(t: float, what: str) -> Quantity:
+    return q(t, "time", "us" if t < 1e-2 else "ms" if t < 10 else "s", what=what)
 
 
-def _hz(f: float) -> str:
-    return f"{f / 1e3:.3g} kHz" if f >= 1e3 else f"{f:.3g} Hz"
+def _frequency(f: float, what: str) -> Quantity:
+    return q(f, "frequency", "kHz" if f >= 1e3 else "Hz", what=what)
 
 
 def reactive_results(point: OperatingPoint, bench: Bench, gamma: float, load, frequency: float | None):

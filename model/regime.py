@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from . import glow
 from .bench import Bench
-from .results import Flag
+from .results import Flag, Quantity, flag, q
 
 __all__ = ["ARC_SPOT_CURRENT", "glow_after_ignition", "normal_glow_data"]
 
@@ -48,50 +48,61 @@ def glow_after_ignition(bench: Bench, p_eff: float, v_min: float, V: float) -> t
             )
         )
         return ll, flags
-    amps = f"{_amps(ll.current)} at {ll.voltage:.0f} V"
+    amps = "{I} at {V}"
+    at = {"I": _amps(ll.current), "V": q(ll.voltage, "voltage", "V", ".0f", "glow voltage")}
     if ll.regime == "arc_risk":
         flags.append(
-            Flag(
+            flag(
                 "glow_to_arc",
                 "danger",
-                f"{amps}: {ll.current_density / 1e4:.3g} A/cm^2 on the cathode "
-                f"approaches the {glow.ARC_CURRENT_DENSITY / 1e4:g} A/cm^2 where glows turn into arcs",
+                amps + ": {j} on the cathode approaches the {j_arc} where glows turn into arcs",
                 method,
+                j=q(ll.current_density, "current_density", "A/cm^2", what="current density on the cathode"),
+                j_arc=q(glow.ARC_CURRENT_DENSITY, "current_density", "A/cm^2", "g", "glow-to-arc current density"),
+                **at,
             )
         )
     elif ll.regime == "townsend_dark":
         flags.append(
-            Flag(
+            flag(
                 "dark_discharge",
                 "watch",
-                f"{amps}: below {glow.TOWNSEND_DARK_MAX_CURRENT * 1e6:g} uA the "
-                "discharge stays dark (Townsend); lower the ballast to reach a glow",
+                amps + ": below {dark} the discharge stays dark (Townsend); lower the ballast to reach a glow",
                 method,
+                dark=q(glow.TOWNSEND_DARK_MAX_CURRENT, "current", "uA", "g", "largest dark-discharge current"),
+                **at,
             )
         )
     else:
-        cover = "" if ll.covered_fraction is None else f", glow covers {ll.covered_fraction:.0%} of the cathode"
+        cover = "" if ll.covered_fraction is None else ", glow covers {cover} of the cathode"
+        if ll.covered_fraction is not None:
+            at["cover"] = q(ll.covered_fraction, "fraction", "%", ".0%", "share of the cathode the glow covers")
         flags.append(
-            Flag(
+            flag(
                 "glow_regime",
                 "ok",
-                f"{amps}: {ll.regime.replace('_', ' ')}{cover}, limited by the {ll.limited_by.replace('_', ' ')}",
+                amps
+                + f": {ll.regime.replace('_', ' ')}"
+                + cover
+                + f", limited by the {ll.limited_by.replace('_', ' ')}",
                 method,
+                **at,
             )
         )
     if ll.short_circuit_current is not None and ll.short_circuit_current >= ARC_SPOT_CURRENT:
         flags.append(
-            Flag(
+            flag(
                 "arc_sustainable",
                 "watch",
-                f"the supply can drive {ll.short_circuit_current:.3g} A into a "
-                f"short, above the ~{ARC_SPOT_CURRENT:g} A a cathode spot needs: an arc, once started, "
-                "can keep burning; use arc detection or a faster current limit",
+                "the supply can drive {short} into a short, above the ~{spot} a cathode spot needs: an arc, once "
+                "started, can keep burning; use arc detection or a faster current limit",
                 "cathode-spot threshold current of metals (from memory)",
+                short=q(ll.short_circuit_current, "current", "A", what="short-circuit current"),
+                spot=q(ARC_SPOT_CURRENT, "current", "A", "g", "least current a cathode spot needs"),
             )
         )
     return ll, flags
 
 
-def _amps(i: float) -> str:
-    return f"{i:.3g} A" if i >= 1 else f"{i * 1e3:.3g} mA"
+def _amps(i: float) -> Quantity:
+    return q(i, "current", "A" if i >= 1 else "mA", what="glow current")

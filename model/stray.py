@@ -11,7 +11,7 @@ from collections.abc import Callable
 
 from .bench import Bench, OperatingPoint
 from .glow import LoadLine
-from .results import Flag, StrayResult
+from .results import Flag, StrayResult, flag, q
 
 __all__ = ["left_branch_flags", "stray_flags", "stray_gaps"]
 
@@ -32,17 +32,26 @@ def stray_gaps(
     return tuple(out)
 
 
-def _first_reason(g: StrayResult, vb: float | None, V: float | None) -> str:
-    where = f"{g.name} ({g.length * 1e3:.3g} mm) breaks down at {g.breakdown_voltage:.0f} V"
+def _first_flag(g: StrayResult, vb: float | None, V: float | None) -> Flag:
+    quantities = {
+        "length": q(g.length, "length", "mm", what="stray gap length"),
+        "vs": q(g.breakdown_voltage, "voltage", "V", ".0f", "stray gap breakdown voltage"),
+    }
+    where = g.name + " ({length}) breaks down at {vs}"
     if vb is None:
-        lead = f"{where}, while the main gap cannot break down at any voltage"
+        lead = where + ", while the main gap cannot break down at any voltage"
     else:
-        lead = f"{where}, at or below the main gap's {vb:.0f} V"
+        lead = where + ", at or below the main gap's {vb}"
+        quantities["vb"] = q(vb, "voltage", "V", ".0f", "main gap breakdown voltage")
     if V is None:
-        return f"{lead}: a discharge would start there"
-    if V >= g.breakdown_voltage:
-        return f"{lead}, and the supply's {V:.0f} V reaches it: the discharge would start there"
-    return f"{lead}; the supply's {V:.0f} V does not reach it yet, but a higher voltage would strike there first"
+        text = lead + ": a discharge would start there"
+    else:
+        quantities["V"] = q(V, "voltage", "V", ".0f", "supply voltage")
+        if V >= g.breakdown_voltage:
+            text = lead + ", and the supply's {V} reaches it: the discharge would start there"
+        else:
+            text = lead + "; the supply's {V} does not reach it yet, but a higher voltage would strike there first"
+    return flag("stray_gap_first", "danger", text, _METHOD, **quantities)
 
 
 def stray_flags(
@@ -53,15 +62,17 @@ def stray_flags(
     running = load.voltage if load is not None else V
     for g in strays:
         if g.first:
-            flags.append(Flag("stray_gap_first", "danger", _first_reason(g, vb, V), _METHOD))
+            flags.append(_first_flag(g, vb, V))
         elif g.breakdown_voltage is not None and running is not None and running >= g.breakdown_voltage:
             flags.append(
-                Flag(
+                flag(
                     "stray_gap_may_strike",
                     "watch",
-                    f"{g.name} ({g.length * 1e3:.3g} mm) breaks down at {g.breakdown_voltage:.0f} V, "
-                    f"within the {running:.0f} V across it while the glow runs",
+                    g.name + " ({length}) breaks down at {vs}, within the {running} across it while the glow runs",
                     _METHOD,
+                    length=q(g.length, "length", "mm", what="stray gap length"),
+                    vs=q(g.breakdown_voltage, "voltage", "V", ".0f", "stray gap breakdown voltage"),
+                    running=q(running, "voltage", "V", ".0f", "voltage while the glow runs"),
                 )
             )
     if strays and not flags:
@@ -84,16 +95,20 @@ def left_branch_flags(
     if br != "left":
         return []
     l_min = pd_min / scale / p_eff  # the length that sits at the minimum at this pressure
-    chamber = ""
+    chamber, extra = "", {}
     if bench.chamber is not None and max(bench.chamber.radius, bench.chamber.length / 2) > point.gap:
-        chamber = f"; the chamber ({bench.chamber.radius * 1e3:.0f} mm radius) holds such paths"
+        chamber = "; the chamber ({radius} radius) holds such paths"
+        extra["radius"] = q(bench.chamber.radius, "length", "mm", ".0f", "chamber radius")
     return [
-        Flag(
+        flag(
             "left_branch_longer_paths",
             "watch",
-            f"the main gap ({point.gap * 1e3:.3g} mm) is left of the "
-            f"minimum: longer paths at cathode potential, up to {l_min * 1e3:.3g} mm, break down at lower "
-            f"voltage (down to {v_min:.0f} V){chamber}; shield the back and sides of the cathode",
+            "the main gap ({gap}) is left of the minimum: longer paths at cathode potential, up to {l_min}, break "
+            "down at lower voltage (down to {v_min})" + chamber + "; shield the back and sides of the cathode",
             "Paschen's law, left branch",
+            gap=q(point.gap, "length", "mm", what="main gap"),
+            l_min=q(l_min, "length", "mm", what="path length at the curve's minimum"),
+            v_min=q(v_min, "voltage", "V", ".0f", "minimum breakdown voltage"),
+            **extra,
         )
     ]

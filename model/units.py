@@ -24,11 +24,14 @@ from . import constants as _c
 __all__ = [
     "CONVENTIONS",
     "KINDS",
+    "READINGS",
+    "SYSTEMS",
     "QuantityError",
     "convert",
     "format_value",
     "parse",
     "parse_pd",
+    "si_unit",
     "units_of",
     "from_amplitude",
     "to_amplitude",
@@ -144,6 +147,28 @@ _KINDS: dict[str, _Kind] = {
         '"20 sccm", "0.5 slm", "0.03 Pa m3/s"',
     ),
     "power": _Kind("power", "W", {"W": 1.0, "kW": _c.kilo, "mW": _c.milli}, '"300 W", "1.2 kW"'),
+    "pd": _Kind(
+        "pd",
+        "Pa m",
+        {"Pa m": 1.0, "mbar mm": _c.bar * _c.milli * _c.milli, "Torr cm": _TORR * _c.centi},
+        '"0.5 Torr cm", "1 Pa m"',
+    ),
+    "e_over_p": _Kind(
+        "e_over_p",
+        "V/(Pa m)",
+        {"V/(Pa m)": 1.0, "V/(mbar mm)": 1.0 / (_c.bar * _c.milli * _c.milli), "V/(Torr cm)": 1.0 / (_TORR * _c.centi)},
+        '"100 V/(Torr cm)"',
+    ),
+    "reduced_field": _Kind("reduced_field", "V m2", {"V m2": 1.0, "Td": 1e-21}, '"120 Td"'),
+    "current_density": _Kind(
+        "current_density",
+        "A/m2",
+        {"A/m2": 1.0, "mA/cm^2": _c.milli / _c.centi**2, "A/cm^2": 1.0 / _c.centi**2},
+        '"1 mA/cm^2"',
+    ),
+    "fraction": _Kind("fraction", "1", {"1": 1.0, "%": 0.01}, '"20 %"', positive=False),
+    "number": _Kind("number", "", {"": 1.0}, '"18.4"', positive=False),
+    "energy": _Kind("energy", "J", {"J": 1.0, "eV": _c.e}, '"15.76 eV"'),
     # Pumping speed: volume per time at the chamber.
     "speed": _Kind(
         "speed",
@@ -152,7 +177,30 @@ _KINDS: dict[str, _Kind] = {
         '"250 l/s", "900 m3/h"',
     ),
 }
-KINDS: tuple[str, ...] = tuple(_KINDS)
+READINGS: dict[str, tuple[str, str]] = {
+    "pressure": ("pressure", "Pa"),
+    "voltage": ("voltage", "V"),
+    "current": ("current", "mA"),
+    "flow": ("flow", "sccm"),
+    "forward_power": ("power", "W"),
+    "reflected_power": ("power", "W"),
+    "self_bias": ("voltage", "V"),
+    "rf_voltage": ("voltage", "V"),
+}
+"""Each quantity an instrument channel reads: its unit kind and the unit a reading is shown in."""
+
+_SHOWN_ONLY = ("pd", "e_over_p", "reduced_field", "current_density", "fraction", "number", "energy")
+"""Kinds the model's sentences show (a flag's quantities) but nobody types: not offered to the parser."""
+KINDS: tuple[str, ...] = tuple(k for k in _KINDS if k not in _SHOWN_ONLY)
+"""The kinds a typed quantity may be (every kind converts and formats)."""
+
+SYSTEMS: dict[str, dict[str, str]] = {
+    "SI": {"pressure": "Pa", "length": "mm", "pd": "Pa m", "e_over_p": "V/(Pa m)"},
+    "mbar": {"pressure": "mbar", "length": "mm", "pd": "mbar mm", "e_over_p": "V/(mbar mm)"},
+    "Torr": {"pressure": "mTorr", "length": "cm", "pd": "Torr cm", "e_over_p": "V/(Torr cm)"},
+}
+"""The unit systems the screen and the text output offer: the unit each of these kinds is shown in
+(every other kind is shown as the model wrote it)."""
 
 # "<number><optional space><unit>"; the number accepts 1, 1.5, .5, 1e-3, 1.5E+2.
 _QUANTITY = re.compile(
@@ -253,6 +301,15 @@ def parse_pd(text: str, *, name: str | None = None) -> float:
     if not math.isfinite(value) or value <= 0:
         raise QuantityError(f"{label} {text!r}: must be a finite value above zero; give {example}")
     return value
+
+
+def si_unit(kind: str) -> str:
+    """The SI unit of ``kind``.
+
+    >>> si_unit("pd")
+    'Pa m'
+    """
+    return _KINDS[kind].si
 
 
 def convert(value_si: float, kind: str, unit: str) -> float:

@@ -5,14 +5,10 @@ from __future__ import annotations
 from typing import TYPE_CHECKING, Any
 
 from ..drivers.logbook import iso_utc
-from ..model.units import format_value
-from .unitwords import SYSTEMS, in_units
+from ..model.units import READINGS, SYSTEMS, convert, format_value
 
 if TYPE_CHECKING:
-    from ..model.results import Forecast
-
-UNIT_SYSTEMS = SYSTEMS
-"""The unit systems on offer (:mod:`.unitwords`)."""
+    from ..model.results import Flag, Forecast, Quantity
 
 _LEVEL_MARK = {"ok": "ok    ", "watch": "WATCH ", "danger": "DANGER"}
 
@@ -25,11 +21,38 @@ def pd_text(pd_si: float | None, system: str) -> str:
     """
     if pd_si is None:
         return "none"
-    pu, lu = UNIT_SYSTEMS[system][2]
-    from ..model.units import convert
+    unit = SYSTEMS[system]["pd"]
+    return f"{_g(convert(pd_si, 'pd', unit))} {unit}"
 
-    value = convert(pd_si, "pressure", pu) * convert(1.0, "length", lu)
-    return f"{_g(value)} {pu} {lu}"
+
+def shown(x: Quantity, system: str) -> str:
+    """A flag's quantity in the unit system's units: pressures, pds, fields over pressure and lengths
+    the model writes in mm; every other one as the model wrote it.
+
+    >>> from strikeline.model.results import q
+    >>> shown(q(20.0, "pressure", "Pa"), "Torr"), shown(q(0.03, "length", "mm"), "Torr")
+    ('150 mTorr', '3 cm')
+    >>> shown(q(0.015, "length", "cm"), "Torr"), shown(q(0.6, "pd", "Pa m", bare=True), "mbar")
+    ('1.5 cm', '6')
+    """
+    if x.kind in ("pressure", "pd", "e_over_p") or (x.kind == "length" and x.unit == "mm"):
+        return x.text(SYSTEMS[system][x.kind], ".3g")
+    return x.text()
+
+
+def pressure_text(p: float, system: str, digits: int = 4) -> str:
+    """A pressure (Pa) in the unit system's pressure unit, ``digits`` significant figures.
+
+    >>> pressure_text(40.0, "SI"), pressure_text(40.0, "Torr")
+    ('40 Pa', '300 mTorr')
+    """
+    unit = SYSTEMS[system]["pressure"]
+    return f"{convert(p, 'pressure', unit):.{digits}g} {unit}"
+
+
+def flag_sentence(flag: Flag, system: str) -> str:
+    """A flag's sentence with its quantities in the unit system's units."""
+    return flag.sentence(lambda x: shown(x, system))
 
 
 def amps(i: float) -> str:
@@ -47,7 +70,7 @@ def _g(x: float) -> str:
 
 def forecast_text(f: Forecast, system: str = "SI") -> str:
     """The forecast as the lines ``strikeline strike`` prints."""
-    pu, lu, _ = UNIT_SYSTEMS[system]
+    pu, lu = SYSTEMS[system]["pressure"], SYSTEMS[system]["length"]
     rows: list[tuple[str, str]] = [
         (
             "gas / cathode",
@@ -137,7 +160,7 @@ def forecast_text(f: Forecast, system: str = "SI") -> str:
     lines.append("")
     lines.append("flags")
     for flag in f.flags:
-        lines.append(f"  {_LEVEL_MARK[flag.level]} {flag.code}: {in_units(flag.reason, system)}")
+        lines.append(f"  {_LEVEL_MARK[flag.level]} {flag.code}: {flag_sentence(flag, system)}")
     if not f.flags:
         lines.append("  none")
     lines.append("")
@@ -209,7 +232,7 @@ def alternating_rows(f: Forecast, system: str) -> list[tuple[str, str]]:
     a = f.alternating
     if a is None:
         return []
-    pu = UNIT_SYSTEMS[system][0]
+    pu = SYSTEMS[system]["pressure"]
     rows = [("alternating", f"{frequency_text(a.frequency)}, {a.regime}; voltages are amplitudes (peak)")]
     if f.breakdown_voltage is not None:
         rows.append(
@@ -270,18 +293,6 @@ def reactive_rows(f: Forecast) -> list[tuple[str, str]]:
     return rows
 
 
-_READING_UNITS = {
-    "pressure": "Pa",
-    "voltage": "V",
-    "current": "mA",
-    "flow": "sccm",
-    "forward_power": "W",
-    "reflected_power": "W",
-    "self_bias": "V",
-    "rf_voltage": "V",
-}
-
-
 def state_word(value: float | None, labels: dict[int, str]) -> str:
     """The word a state channel's value stands for ("closed"), or the number where none is given.
 
@@ -329,10 +340,7 @@ def reading_text(r, corr=None, labels: dict[int, str] | None = None) -> str:
     if r.quantity == "state":
         shown = state_word(value, labels or {}) if value is not None else str(r.status).upper()
         return f"{iso_utc(r.t_wall)[11:23]}  {r.channel:<16} {shown:>14}  {r.status}"
-    unit = _READING_UNITS[r.quantity]
-    kind = {"forward_power": "power", "reflected_power": "power", "self_bias": "voltage", "rf_voltage": "voltage"}.get(
-        r.quantity, r.quantity
-    )
+    kind, unit = READINGS[r.quantity]
     shown = format_value(value, kind, unit) if value is not None else str(r.status).upper()
     extra = ""
     if corr is not None and r.value is not None:

@@ -11,7 +11,7 @@ import math
 from dataclasses import replace
 from typing import TYPE_CHECKING
 
-from ..text import UNIT_SYSTEMS
+from ...model.units import SYSTEMS
 from .plot import CurveInputs
 from .readouts import pd_display
 
@@ -99,7 +99,7 @@ def live_curve(
         upper=upper,
         marks=tuple((pd * to_x, v) for pd, v in marks),
         saved=_saved(bench, k, to_x),
-        pd_unit=" ".join(UNIT_SYSTEMS[units][2]),
+        pd_unit=SYSTEMS[units]["pd"],
         width=width,
         height=height,
         colour=colour,

@@ -10,9 +10,9 @@ from typing import TYPE_CHECKING
 
 from textual.binding import Binding
 
+from ...model.units import SYSTEMS, format_value
 from ..session.marks import StrikeMark
-from ..text import UNIT_SYSTEMS
-from ..unitwords import in_units
+from ..text import pressure_text
 from .readouts import NUDGE_FIELDS, flag_lines
 
 if TYPE_CHECKING:
@@ -163,7 +163,7 @@ class KeyActions:
         self.refresh_view()
 
     def action_units(self) -> None:
-        systems = list(UNIT_SYSTEMS)
+        systems = list(SYSTEMS)
         self.units = systems[(systems.index(self.units) + 1) % len(systems)]
         self.plot_stale = True
         self.refresh_view()
@@ -177,9 +177,7 @@ class KeyActions:
     def action_strike(self) -> None:
         mark = self.session.mark_strike()
         if isinstance(mark, StrikeMark):
-            from ...model.units import format_value
-
-            where = format_value(mark.pressure, "pressure", UNIT_SYSTEMS[self.units][0])
+            where = format_value(mark.pressure, "pressure", SYSTEMS[self.units]["pressure"])
             text = f"strike marked: {where}, gap {mark.gap * 1e3:.3g} mm, {mark.voltage:.0f} V"
             self.record_event(text)
             self.note(f"{text} ({len(self.session.strikes)} this session)")
@@ -191,7 +189,7 @@ class KeyActions:
         if mark is None:
             self.note("no strike proposed to keep")
             return
-        text = in_units(f"strike kept: {mark.pressure:.4g} Pa, {mark.voltage:.0f} V ({mark.note})", self.units)
+        text = f"strike kept: {pressure_text(mark.pressure, self.units)}, {mark.voltage:.0f} V ({mark.note})"
         self.record_event(text)
         self.note(f"{text}; {len(self.session.strikes)} marks this session")
 

@@ -23,8 +23,7 @@ from textual.widgets import Static
 
 from ...drivers.logbook import iso_utc
 from ..session.session import Session
-from ..text import fill_label
-from ..unitwords import in_units
+from ..text import fill_label, pressure_text
 from .keys import BINDINGS, KEY_HINTS, KeyActions
 from .lines_view import LinesView
 from .messages import Fresh, LogbookNote, PortNote, ReplayNote, Skipped
@@ -264,8 +263,8 @@ class StrikelineApp(KeyActions, PanelDrawing, App[None]):
         self.view_ = view
         for pending in view.proposed:
             m = pending.mark
-            text = in_units(
-                f"strike seen: {m.voltage:.0f} V at {m.pressure:.4g} Pa ({pending.proposal.signal})", self.units
+            text = (
+                f"strike seen: {m.voltage:.0f} V at {pressure_text(m.pressure, self.units)} ({pending.proposal.signal})"
             )
             self.record_event(text)
             self.note(f"{text}: y keeps it as a mark, n drops it", error=True)

@@ -9,7 +9,8 @@ from __future__ import annotations
 
 from rich.text import Text
 
-from ..text import UNIT_SYSTEMS, fill_label, supply_label
+from ...model.units import SYSTEMS
+from ..text import fill_label, supply_label
 from .readouts import STYLE, channel_line, flag_lines, flags_text, readout_lines, sparkline
 
 __all__ = ["FLAG_TEXT_INTERVAL", "READOUT_LINES", "PanelDrawing"]
@@ -127,7 +128,7 @@ class PanelDrawing:
         self.history_p.append(v.pressure.value)
         self.history_v.append(None if v.forecast is None else v.forecast.breakdown_voltage)
         width = max(self.panels["history"].size.width - 34, 10)
-        pu = UNIT_SYSTEMS[self.units][0]
+        pu = SYSTEMS[self.units]["pressure"]
         good = [p for p in self.history_p if p is not None]
         span = ""
         if good:

@@ -9,10 +9,9 @@ from __future__ import annotations
 from typing import TYPE_CHECKING
 
 from ...drivers.reading import Reading
-from ...model.units import convert, format_value, from_amplitude
+from ...model.units import SYSTEMS, convert, format_value, from_amplitude
 from ..session.session import View
-from ..text import CONVENTION_TAG, UNIT_SYSTEMS, amps, pd_text, state_word
-from ..unitwords import in_units
+from ..text import CONVENTION_TAG, amps, flag_sentence, pd_text, state_word
 
 if TYPE_CHECKING:
     from ...model.results import Forecast
@@ -70,7 +69,7 @@ def readout_lines(
     row of its own, and a reactive process a row for the target (both last: a short terminal clips
     them first). ``convention`` (peak, rms or pp) shows an alternating supply's voltages; ``wide``
     (a wide terminal) adds what the band is made of and what limits the glow."""
-    pu, lu, _ = UNIT_SYSTEMS[system]
+    pu, lu = SYSTEMS[system]["pressure"], SYSTEMS[system]["length"]
     p = view.pressure
     mark = {name: (">" if selected == name else " ") for name in NUDGE_FIELDS}
     rows: list[tuple[str, str, str]] = []
@@ -223,7 +222,7 @@ def flag_lines(f: Forecast | None, system: str = "SI") -> list[tuple[str, str, s
         return []
     order = {"danger": 0, "watch": 1, "ok": 2}
     return [
-        (LEVEL_WORD[x.level], x.code, in_units(x.reason, system)) for x in sorted(f.flags, key=lambda x: order[x.level])
+        (LEVEL_WORD[x.level], x.code, flag_sentence(x, system)) for x in sorted(f.flags, key=lambda x: order[x.level])
     ]
 
 
@@ -256,5 +255,4 @@ def sparkline(values: list[float | None], width: int, log: bool = True) -> str:
 
 def pd_display(pd_si: float, system: str) -> float:
     """pd in the unit system's pd unit (for the picture's axis)."""
-    pu, lu = UNIT_SYSTEMS[system][2]
-    return convert(pd_si, "pressure", pu) * convert(1.0, "length", lu)
+    return convert(pd_si, "pd", SYSTEMS[system]["pd"])

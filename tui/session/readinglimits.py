@@ -10,6 +10,7 @@ from dataclasses import replace
 
 from ...drivers.reading import Reading, Status
 from ...model.limits import LIMITS
+from ...model.units import READINGS, si_unit
 
 __all__ = ["READING_BOUNDS", "ReadingLimits"]
 
@@ -24,17 +25,6 @@ READING_BOUNDS = {
     "rf_voltage": (-LIMITS["voltage"].high, LIMITS["voltage"].high),
 }
 """A reading outside these (SI) is far out of any instrument's range."""
-
-_UNITS = {
-    "pressure": "Pa",
-    "voltage": "V",
-    "current": "A",
-    "flow": "Pa m3/s",
-    "forward_power": "W",
-    "reflected_power": "W",
-    "self_bias": "V",
-    "rf_voltage": "V",
-}
 
 
 class ReadingLimits:
@@ -56,7 +46,7 @@ class ReadingLimits:
             return r, None
         lo, hi = bounds
         status = Status.OVER_RANGE if r.value > hi else Status.UNDER_RANGE
-        unit = _UNITS[r.quantity]
+        unit = si_unit(READINGS[r.quantity][0])
         why = f"{r.value:.3g} {unit} is outside the {lo:g} to {hi:g} {unit} strikeline accepts"
         r = replace(r, value=None, status=status, raw=f"{r.raw} ({why})")
         if was_out:

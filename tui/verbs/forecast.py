@@ -8,13 +8,13 @@ from dataclasses import replace
 
 from ...model import units
 from ...model.limits import check, parse_within
-from ...model.units import QuantityError, to_amplitude
+from ...model.units import SYSTEMS, QuantityError, to_amplitude
 from ..outputs import print_json
 from .parser import UsageError, add_gas, add_verb, count, number, quantity
 
 __all__ = ["add_curve", "add_gases", "add_strike", "bench_for"]
 
-UNIT_CHOICES = ("SI", "mbar", "Torr")
+UNIT_CHOICES = tuple(SYSTEMS)
 
 
 def _common_point(s: argparse.ArgumentParser) -> None:
