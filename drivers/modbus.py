@@ -47,12 +47,12 @@ class ModbusReader(ReaderThread):
     """A thread that polls one :class:`ModbusPortSpec` and emits readings."""
 
     def __init__(self, spec: ModbusPortSpec, emit: Emit, on_event: Event | None = None, **kw):
-        from pymodbus.exceptions import ConnectionException, ModbusIOException  # loads with the port
+        from pymodbus.exceptions import ConnectionException, ModbusException, ModbusIOException  # loads with it
 
         _quiet_library_log()
-        # A client closed under a read (stop, or a dropped link) can raise from inside pymodbus, or
-        # from pyserial under it (ValueError: a closed socket's descriptor -1 given to select).
-        self.PORT_ERRORS = (ConnectionException, OSError, AttributeError, TypeError, ValueError)
+        # What a failing link raises; a client closed under a read by stop() may raise anything from
+        # inside pymodbus or pyserial: the reader ignores that while stopping.
+        self.PORT_ERRORS = (ConnectionException, ModbusException, OSError)
         self._io_error = ModbusIOException
         super().__init__(spec, emit, on_event, **kw)
         self.blocks = plan_reads(spec.channels)
@@ -105,6 +105,8 @@ class ModbusReader(ReaderThread):
         channels = [c for c in s.channels if c.register in block.members or c.status_register in block.members]
         try:
             response = getattr(client, _READ[block.table])(block.start, count=block.count, device_id=s.unit_id)
+        except ValueError as e:  # pyserial's socket closed under the read: select() on descriptor -1
+            raise ConnectionError(f"connection closed under a read ({e})") from e
         except self._io_error:  # no (complete) answer in time
             for c in channels:
                 self.miss(c)

@@ -103,6 +103,10 @@ class ReaderThread:
             except self.PORT_ERRORS as e:
                 if not self._stop.is_set():
                     self.mark_lost(f"{self.spec.where}: {_one_line(e)}")
+            except Exception:
+                if not self._stop.is_set():  # a bug in this reader, not a port fault: it ends the thread, loudly
+                    raise
+                # stop() closed the port under a read: the library may raise anything; we are leaving
             finally:
                 try:
                     self._close(handle)

@@ -27,7 +27,7 @@ class ScpiReader(ReaderThread):
     def __init__(self, spec: ScpiPortSpec, emit: Emit, on_event: Event | None = None, **kw):
         from pyvisa.errors import InvalidSession, VisaIOError  # loads with the port
 
-        self.PORT_ERRORS = (VisaIOError, InvalidSession, OSError, ValueError)
+        self.PORT_ERRORS = (VisaIOError, InvalidSession, OSError)
         # An answer cut short (a timeout mid-line) is parsed or refused as garbled here; pyvisa's own
         # warning about it would be printed across the live screen.
         warnings.filterwarnings("ignore", "read string doesn't end with termination characters", UserWarning)

@@ -281,24 +281,28 @@ def test_rtu_framing_over_a_tcp_gateway():
         dev.close()
 
 
-def test_a_port_closed_under_a_read_is_lost_and_reopened_never_a_dead_thread():
+def test_a_port_closed_under_a_read_is_lost_and_reopened_never_a_dead_thread(monkeypatch):
     # pyserial's socket, closed under a read (a stop, a dropped gateway), raises ValueError from
-    # select on descriptor -1 deep inside pymodbus: the reader must take it as a lost port.
+    # select on descriptor -1 deep inside pymodbus's read call: the reader must take it as a lost port.
+    from pymodbus.client import ModbusSerialClient
+
     dev = ModbusDevice(unit=7, rtu=True)
     fill(dev)
     sink = Sink()
     where = f'transport = "rtu"\ndevice = "socket://127.0.0.1:{dev.port}"'
     inst = Instruments(profile_for(where).ports, sink.emit, sink.event)
     reader = inst.readers[0]
-    real, raised = reader._read, []
+    raised = []
+    for name in ("read_holding_registers", "read_input_registers"):
+        real = getattr(ModbusSerialClient, name)
 
-    def read(client, block):
-        if not raised:
-            raised.append(block)
-            raise ValueError("file descriptor cannot be a negative integer (-1)")
-        return real(client, block)
+        def read(self, *a, _real=real, **kw):
+            if not raised:
+                raised.append(a)
+                raise ValueError("file descriptor cannot be a negative integer (-1)")
+            return _real(self, *a, **kw)
 
-    reader._read = read
+        monkeypatch.setattr(ModbusSerialClient, name, read)
     inst.start()
     try:
         assert wait_for(lambda: raised and reader.stats.reconnects >= 1 and sink.last("chamber") is not None)

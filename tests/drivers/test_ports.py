@@ -335,3 +335,28 @@ def test_bad_port_sections_name_file_and_field(snippet, needle):
     with pytest.raises(ProfileError) as e:
         parse_bench(BENCH + snippet, "test-bench.toml", None)
     assert str(e.value).startswith("test-bench.toml:") and needle in str(e.value)
+
+
+def test_a_consumer_that_raises_is_reported_and_the_port_stays_up(sink, caplog):
+    # One reading path: a bug in what consumes readings (a TypeError on every call) is never counted as
+    # an instrument fault. The port is not lost, does not reconnect, the readings keep coming, and the
+    # error is reported once per call with its traceback in the log.
+    dev = PtyInstrument(answer_a({b"?P": b"0;1.0;mbar", b"?V": b"0;1;V"}), terminator=b"\r")
+    errors = []
+
+    def broken(r):
+        sink.emit(r)
+        raise TypeError("a bug in the consumer")
+
+    inst = Instruments(ports_of(PROTOCOL_A, url=dev.path), broken, sink.event, on_error=errors.append)
+    inst.start()
+    try:
+        assert wait_for(lambda: len(sink.readings) >= 6 and len(errors) >= 6)
+    finally:
+        inst.stop()
+        dev.close()
+    (stats,) = inst.stats().values()
+    assert stats.faults == 0 and stats.reconnects == 0 and stats.readings >= 6
+    assert not any(kind == "lost" for _port, kind, _text in sink.events)
+    assert inst.consumer_errors >= 6 and "TypeError: a bug in the consumer" in errors[0]
+    assert "Traceback" in caplog.text or any(r.exc_info for r in caplog.records)

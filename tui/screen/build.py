@@ -106,7 +106,9 @@ def make_app(
         def make_source():
             from ...drivers.hub import Instruments
 
-            return Instruments(profile.ports, on_reading, on_port)
+            # One consumer thread takes every port's readings off one queue (drivers/hub.py); a bug in
+            # handling one is reported on the screen, never taken for a lost instrument.
+            return Instruments(profile.ports, on_reading, on_port, on_error=lambda text: post(Skipped(text)))
 
     marker = None
     if show_caution is None:  # first start for this user: show the cautions once

@@ -179,19 +179,16 @@ def cmd_live(args: argparse.Namespace) -> int:
 
 
 def cmd_gauge(args: argparse.Namespace) -> int:
-    import queue
     import time
 
-    from ...drivers.hub import Instruments
+    from ...drivers.hub import Instruments, PortEvent
     from ..text import reading_json, reading_text
 
     profile = _profile(args)
     if not profile.ports:
         raise UsageError(f"strikeline gauge: bench {profile.label!r} has no [[port]] section: nothing to read")
-    q: queue.Queue = queue.Queue()
-    events: queue.Queue = queue.Queue()
     labels = {c.name: c.labels for p in profile.ports for c in p.channels}
-    inst = Instruments(profile.ports, q.put, lambda port, kind, msg: events.put((port, kind, msg)))
+    inst = Instruments(profile.ports)  # taken off its one queue here, on this thread
     start = time.monotonic()
     deadline = start + (args.seconds if args.seconds is not None else SILENCE_LIMIT)
     shown = answered = 0
@@ -203,12 +200,11 @@ def cmd_gauge(args: argparse.Namespace) -> int:
     inst.start()
     try:
         while shown < args.samples and time.monotonic() < deadline:
-            while not events.empty():
-                port, kind, msg = events.get()
-                print(f"# {port}: {kind} {msg}", file=sys.stderr)
-            try:
-                r = q.get(timeout=0.2)
-            except queue.Empty:
+            r = inst.take(0.2)
+            if r is None:
+                continue
+            if isinstance(r, PortEvent):
+                print(f"# {r.port}: {r.kind} {r.message}", file=sys.stderr)
                 continue
             shown += 1
             if r.answered:
@@ -230,10 +226,9 @@ def cmd_gauge(args: argparse.Namespace) -> int:
 
 
 def cmd_record(args: argparse.Namespace) -> int:
-    import queue
     import time
 
-    from ...drivers.hub import Instruments
+    from ...drivers.hub import Instruments, PortEvent
     from ...drivers.logbook import Logbook
     from ..locations import new_logbook_path
     from ..session.session import Session
@@ -255,8 +250,7 @@ def cmd_record(args: argparse.Namespace) -> int:
     session = Session(profile, logbook=book)
     if args.gas is not None:
         session.set_gas(args.gas)
-    q: queue.Queue = queue.Queue()
-    inst = Instruments(profile.ports, q.put, lambda port, kind, msg: q.put((port, kind, msg)))
+    inst = Instruments(profile.ports)  # taken off its one queue here, on this thread
     fill = session.bench.composition
     print(f"strikeline record: logging {profile.label} in {fill} to {path} for {args.seconds:g} s", file=sys.stderr)
     end = time.monotonic() + args.seconds
@@ -266,12 +260,9 @@ def cmd_record(args: argparse.Namespace) -> int:
     inst.start()
     try:
         while time.monotonic() < end:
-            try:
-                item = q.get(timeout=0.1)
-            except queue.Empty:
-                item = None
-            if isinstance(item, tuple):
-                session.event(*item)
+            item = inst.take(0.1)
+            if isinstance(item, PortEvent):
+                session.event(item.port, item.kind, item.message)
             elif item is not None:
                 answered += item.answered
                 session.handle(item)
