@@ -6,6 +6,7 @@ change the Session (typed values, nudges, gas, marks) and ask the screen to look
 
 from __future__ import annotations
 
+from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
 from textual.binding import Binding
@@ -18,61 +19,75 @@ from .readouts import NUDGE_FIELDS, flag_lines
 if TYPE_CHECKING:
     from textual.widgets import Input
 
-__all__ = ["BINDINGS", "COARSE", "FINE", "HELP_KEYS", "KEY_HINTS", "KeyActions"]
+__all__ = ["BINDINGS", "COARSE", "FINE", "HELP_KEYS", "KEYS", "KEY_HINTS", "KeyActions", "KeyRow"]
 
 FINE, COARSE = 1.02, 1.25
 """Factors of one nudge with up/down and with PgUp/PgDn."""
 
-BINDINGS = [
-    Binding("p", "enter('pressure')", "pressure"),
-    Binding("g", "enter('gap')", "gap"),
-    Binding("v", "enter('voltage')", "volts"),
-    Binding("t", "enter('temperature')", "temp", show=False),
-    Binding("G", "enter('gas')", "gas", show=False),
-    Binding("C", "enter('cathode')", "cathode", show=False),
-    Binding("left", "select(-1)", "choose", show=False),
-    Binding("right", "select(1)", "choose", show=False),
-    Binding("up", f"nudge({FINE})", "nudge", show=False),
-    Binding("down", f"nudge({1 / FINE})", "nudge", show=False),
-    Binding("pageup", f"nudge({COARSE})", "coarse", show=False),
-    Binding("pagedown", f"nudge({1 / COARSE})", "coarse", show=False),
-    Binding("f", "follow", "gauge", show=False),
-    Binding("u", "units", "units"),
-    Binding("o", "convention", "volts as", show=False),
-    Binding("y", "keep", "keep strike", show=False),
-    Binding("n", "drop", "drop strike", show=False),
-    Binding("space", "pause", "pause"),
-    Binding("s", "strike", "strike!"),
-    Binding("d", "flags", "flags"),
-    Binding("k", "calibrate", "calib"),
-    Binding("r", "report", "report", show=False),
-    Binding("question_mark", "help", "help"),
-    Binding("escape", "cancel", "cancel", show=False),
-    Binding("q", "quit", "quit"),
-]
 
-KEY_HINTS = "p g v type  arrows nudge  u units  s strike  d flags  k calib  ? help  q quit"
+@dataclass(frozen=True)
+class KeyRow:
+    """One row of the help: the keys and the actions they bind, how the help writes them, what they do,
+    and (keys, word) on the bottom line if they are there."""
+
+    binds: tuple[tuple[str, str], ...]
+    """(Textual key name, action) pairs."""
+    shown: str
+    help: str
+    hint: tuple[str, str] | None = None
+
+
+KEYS = (
+    KeyRow(
+        (("p", "enter('pressure')"), ("g", "enter('gap')"), ("v", "enter('voltage')"), ("t", "enter('temperature')")),
+        "p g v t",
+        "type pressure, gap, supply voltage, gas temperature",
+        ("p g v", "type"),
+    ),
+    KeyRow(
+        (("G", "enter('gas')"), ("C", "enter('cathode')")),
+        "G  C",
+        "gas or mixture (argon:80,oxygen:20; flows argon:40sccm,...; 'flows' follows the meters), cathode",
+    ),
+    KeyRow(
+        (("left", "select(-1)"), ("right", "select(1)")),
+        "left right",
+        "choose which value the arrows nudge (marked >)",
+        ("arrows", "nudge"),
+    ),
+    KeyRow((("up", f"nudge({FINE})"), ("down", f"nudge({1 / FINE})")), "up down", f"nudge it by {(FINE - 1):.0%}"),
+    KeyRow(
+        (("pageup", f"nudge({COARSE})"), ("pagedown", f"nudge({1 / COARSE})")),
+        "PgUp PgDn",
+        f"nudge it by {(COARSE - 1):.0%}",
+    ),
+    KeyRow((("f", "follow"),), "f", "follow the gauge again after typing a pressure"),
+    KeyRow((("u", "units"),), "u", "units: SI (Pa, mm) / mbar / Torr", ("u", "units")),
+    KeyRow((("space", "pause"),), "space", "pause / resume the live view (readings are still logged)"),
+    KeyRow((("s", "strike"),), "s", "mark a strike: you saw ignition at this point", ("s", "strike")),
+    KeyRow(
+        (("y", "keep"), ("n", "drop")),
+        "y  n",
+        "keep or drop a strike the instruments saw (proposed on the message line)",
+    ),
+    KeyRow((("o", "convention"),), "o", "an AC or RF supply's voltages as peak / rms / peak-to-peak"),
+    KeyRow((("d", "flags"),), "d", "all flags with their full reasons", ("d", "flags")),
+    KeyRow((("k", "calibrate"),), "k", "calibration: fit this bench's curve to its strike marks", ("k", "calib")),
+    KeyRow(
+        (("r", "report"),),
+        "r",
+        "write the shift report of this session's logbook so far (HTML, beside the logbook)",
+    ),
+    KeyRow((("escape", "cancel"),), "escape", "cancel typing"),
+    KeyRow((("question_mark", "help"),), "?", "this help", ("?", "help")),
+    KeyRow((("q", "quit"),), "q", "quit", ("q", "quit")),
+)
+"""Every key of the live screen, once: the bindings, the bottom line and the help are made from it."""
+
+BINDINGS = [Binding(key, action, row.help, show=False) for row in KEYS for key, action in row.binds]
+KEY_HINTS = "  ".join(f"{keys} {word}" for row in KEYS if row.hint for keys, word in [row.hint])
 """The bottom line: the keys a technician needs most (every key is in the help screen)."""
-
-HELP_KEYS = [
-    ("p g v t", "type pressure, gap, supply voltage, gas temperature"),
-    ("G  C", "gas or mixture (argon:80,oxygen:20; flows argon:40sccm,...; 'flows' follows the meters), cathode"),
-    ("left right", "choose which value the arrows nudge (marked >)"),
-    ("up down", f"nudge it by {(FINE - 1):.0%}"),
-    ("PgUp PgDn", f"nudge it by {(COARSE - 1):.0%}"),
-    ("f", "follow the gauge again after typing a pressure"),
-    ("u", "units: SI (Pa, mm) / mbar / Torr"),
-    ("space", "pause / resume the live view (readings are still logged)"),
-    ("s", "mark a strike: you saw ignition at this point"),
-    ("y  n", "keep or drop a strike the instruments saw (proposed on the message line)"),
-    ("o", "an AC or RF supply's voltages as peak / rms / peak-to-peak"),
-    ("d", "all flags with their full reasons"),
-    ("k", "calibration: fit this bench's curve to its strike marks"),
-    ("r", "write the shift report of this session's logbook so far (HTML, beside the logbook)"),
-    ("escape", "cancel typing"),
-    ("?", "this help"),
-    ("q", "quit"),
-]
+HELP_KEYS = [(row.shown, row.help) for row in KEYS]
 
 PROMPTS = {
     "pressure": "pressure (true), e.g. 20 Pa, 150 mTorr, 0.2 mbar",

@@ -416,3 +416,20 @@ async def test_a_unit_switch_changes_every_pressure_in_the_flags():
         await pilot.pause()
         rows = " ".join(screen_rows(app))
         assert "mbar mm" in rows and "mbar" in rows and not re.search(r"\d Pa\b|Pa m\b|Torr", rows)
+
+
+def test_keys_are_declared_once_and_the_help_and_bottom_line_follow():
+    # One table (tui/screen/keys.py KEYS) makes the bindings, the bottom line and the help: every
+    # binding has an action the app defines, every bound key is in a help row, every hint is a row's.
+    from strikeline.tui.screen.keys import BINDINGS, HELP_KEYS, KEY_HINTS, KEYS
+    from strikeline.tui.screen.live import StrikelineApp
+
+    assert len(BINDINGS) == sum(len(row.binds) for row in KEYS) and len(HELP_KEYS) == len(KEYS)
+    for b in BINDINGS:
+        assert hasattr(StrikelineApp, "action_" + b.action.split("(")[0]), b.action
+    keys = [b.key for b in BINDINGS]
+    assert len(keys) == len(set(keys))  # no key bound twice
+    for row in KEYS:
+        assert (row.shown, row.help) in HELP_KEYS
+        if row.hint:
+            assert f"{row.hint[0]} {row.hint[1]}" in KEY_HINTS
