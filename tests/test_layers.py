@@ -213,3 +213,40 @@ def test_the_live_screens_first_frame_waits_for_no_heavy_import():
         "strikeline.tui.screen.dialogs",
     ):
         assert not any(m == heavy or m.startswith(heavy + ".") for m in loaded), heavy
+
+
+# Inside tui/: the session wires instruments to the model and knows no terminal; the screen and the
+# report do not import each other's rooms at module level, and nothing below tui imports a verb.
+TUI_PACKAGES = {
+    "session": {
+        "banned_packages": {"screen", "report", "verbs"},
+        "banned_libraries": {"textual", "rich", "matplotlib"},
+    },
+    "report": {"banned_packages": {"screen", "verbs"}, "banned_libraries": {"textual"}},
+    "screen": {"banned_packages": {"verbs"}, "banned_libraries": {"matplotlib"}},
+}
+
+
+@pytest.mark.parametrize("package", sorted(TUI_PACKAGES))
+def test_tui_packages_keep_their_rooms(package):
+    rule = TUI_PACKAGES[package]
+    problems = []
+    for path in sorted((ROOT / "tui" / package).rglob("*.py")):
+        tree = ast.parse(path.read_text())
+        top = [n for n in tree.body if isinstance(n, (ast.Import, ast.ImportFrom))]  # module level only
+        for node in top:
+            for name in _imports_of(node, ["strikeline", *path.relative_to(ROOT).parts[:-1]]):
+                parts = name.split(".")
+                if parts[:2] == ["strikeline", "tui"] and len(parts) > 2 and parts[2] in rule["banned_packages"]:
+                    problems.append(f"{path.relative_to(ROOT)} imports {name}")
+                if parts[0] in rule["banned_libraries"]:
+                    problems.append(f"{path.relative_to(ROOT)} imports {name}")
+    assert problems == []
+
+
+def _imports_of(node, package: list[str]) -> list[str]:
+    if isinstance(node, ast.Import):
+        return [a.name for a in node.names]
+    base = package[: len(package) - (node.level - 1)] if node.level else []
+    module = [*base, *(node.module.split(".") if node.module else [])]
+    return [".".join([*module, a.name]) for a in node.names]
