@@ -16,7 +16,7 @@ from ...model.bench import Bench
 from ...profiles.fields import ProfileError
 from ..outputs import OutputError
 
-__all__ = ["MARK", "Report", "bench_of_log", "check_report_target", "parse_when", "write_report"]
+__all__ = ["MARK", "Report", "bench_of_log", "check_report_target", "parse_when", "report_beside", "write_report"]
 
 MARK = "<!DOCTYPE html><!-- strikeline shift report -->"
 """The report's first line: a file that starts with it may be replaced by a new report."""
@@ -193,3 +193,18 @@ def _version() -> str:
         return version("strikeline")
     except PackageNotFoundError:
         return "(version unknown)"
+
+
+def report_beside(log: Path, bench) -> tuple[str, bool]:
+    """Write the shift report of logbook ``log`` beside it (the screen's ``r``, in a worker thread);
+    (what to say, whether it is an error)."""
+    from ..outputs import OutputError
+    from ..verbs.parser import SAFETY
+
+    try:
+        target = check_report_target(str(log.with_suffix(".html")), "report")
+        rep = write_report(log, target, bench=bench, caution=SAFETY, cores=1)  # no fork beside our threads
+        where = f"{rep.path.name} ({rep.readings} readings, {rep.strikes} marks) in {rep.path.parent}"
+        return f"report written: {where}", False  # the name first: a narrow screen cuts the end
+    except (OSError, OutputError) as e:
+        return f"report not written: {e}", True

@@ -2,6 +2,9 @@
 
 from __future__ import annotations
 
+import time
+from pathlib import Path
+
 from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
@@ -9,6 +12,7 @@ from textual.containers import Horizontal, Vertical, VerticalScroll
 from textual.screen import ModalScreen
 from textual.widgets import Static
 
+from ...drivers.logbook import iso_utc
 from .readouts import LEVEL_STYLE
 
 __all__ = ["CAUTION", "CautionScreen", "FlagsScreen", "HelpScreen", "Notice"]
@@ -65,6 +69,19 @@ class CautionScreen(Notice):
     """The high-voltage cautions, shown on first start and on request."""
 
     BINDINGS = [Binding("enter,escape,space", "dismiss", "continue")]
+
+    def __init__(self, marker: Path | None = None):
+        super().__init__()
+        self.marker = marker
+        """Written once the cautions are seen, so they show on a user's first start only."""
+
+    def on_unmount(self) -> None:
+        if self.marker is not None:
+            try:
+                self.marker.parent.mkdir(parents=True, exist_ok=True)
+                self.marker.write_text(f"cautions shown {iso_utc(time.time())}\n")
+            except OSError:
+                pass
 
     def compose(self) -> ComposeResult:
         with Vertical(id="caution-box"):

@@ -1,15 +1,16 @@
-"""The live tuning screen (Textual): layout, life cycle, what reaches it from threads, and when it draws.
+"""The live tuning screen (Textual): layout, life cycle, what reaches it from threads, when it draws,
+and what each key does.
 
-Reader threads hand each reading to the Session (which logs it, every one) and post a small
-:class:`~strikeline.tui.screen.messages.Fresh` message only when it changes what is shown
-(:mod:`~strikeline.tui.screen.pacing`); a burst becomes one frame of the latest values. Only the widgets
-whose text changed repaint (what each panel shows: :mod:`~strikeline.tui.screen.panels`). Built only by
-:func:`strikeline.tui.screen.build.make_app`.
+The consumer of the instruments' readings hands each to the Session (which logs it, every one) and
+posts a small :class:`~strikeline.tui.screen.messages.Fresh` message only when it changes what is
+shown (:mod:`~strikeline.tui.screen.pacing`); a burst becomes one frame of the latest values. The
+panels are widgets that own what they show and repaint only when it changed
+(:mod:`~strikeline.tui.screen.panels`); the keys are declared once in
+:mod:`~strikeline.tui.screen.keys`. Built only by :func:`strikeline.tui.screen.build.make_app`.
 """
 
 from __future__ import annotations
 
-import math
 import time
 from collections import deque
 from collections.abc import Callable
@@ -21,21 +22,30 @@ from textual.app import App, ComposeResult
 from textual.containers import Horizontal
 from textual.widgets import Static
 
-from ...drivers.logbook import iso_utc
 from ..session.session import Session
 from ..text import fill_label, pressure_text
-from .keys import BINDINGS, KEY_HINTS, KeyActions
-from .lines_view import LinesView
+from .keys import KEY_HINTS
+from .main import MainScreen
 from .messages import Fresh, LogbookNote, PortNote, ReplayNote, Skipped
 from .pacing import HEARTBEAT, Pacer
-from .panels import PanelDrawing
+from .panels import (
+    CurvePanel,
+    EventsStrip,
+    FlagsPanel,
+    HistoryStrip,
+    MessageLine,
+    Readouts,
+    TextLine,
+    channels_text,
+    flag_events,
+    title_facts,
+)
+from .readouts import channel_line, flag_lines
 
 __all__ = ["StrikelineApp"]
 
-_PANELS = ("title", "channels", "readouts", "plot", "flags", "history", "events", "message", "keys")
 
-
-class StrikelineApp(KeyActions, PanelDrawing, App[None]):
+class StrikelineApp(App[None]):
     """The live tuning screen."""
 
     CSS_PATH = "app.tcss"
@@ -44,7 +54,6 @@ class StrikelineApp(KeyActions, PanelDrawing, App[None]):
     AUTO_FOCUS = None  # keys belong to the screen; the entry line takes focus only when asked
     HORIZONTAL_BREAKPOINTS = [(0, "-narrow"), (72, "-normal"), (120, "-wide")]
     VERTICAL_BREAKPOINTS = [(0, "-short"), (21, "-normal"), (30, "-tall")]
-    BINDINGS = BINDINGS
 
     def __init__(
         self,
@@ -76,50 +85,51 @@ class StrikelineApp(KeyActions, PanelDrawing, App[None]):
         self.paused = False
         self.leaving = False
         """Set once the screen is quitting: nothing more is drawn and no source runs."""
-        self.entry_field: str | None = None
         self.view_ = None
-        self.events: deque[str] = deque(maxlen=200)
-        self.history_p: deque[float | None] = deque(maxlen=600)
-        self.history_v: deque[float | None] = deque(maxlen=600)
         self.logbook_trouble: str | None = None
         self.latency_probe: Callable[[float], None] | None = None
         self.start_notes = notes
         """Said as the first events (e.g. the lines a replayed logbook skipped)."""
-        self.panels: dict[str, Any] = {}
-        """The screen's fixed widgets by id, looked up once when mounted."""
-        self.plot_stale = True
-        """The curve must be redrawn even if its inputs look unchanged."""
         self.stamp: Callable[[], str] = lambda: time.strftime("%H:%M:%S")
-        """The time an event line is stamped with."""
+        """The time an event line is stamped with (set before the screen is composed)."""
         self.history_interval = HEARTBEAT
-        """s between the history strip's samples."""
-        self._shown: dict[str, str] = {}
-        self._plot_key: tuple | None = None
-        self._flag_levels: tuple | None = None
+        """s between the history strip's samples (set before the screen is composed)."""
         self.pacer = Pacer()
+        self.panels: dict[str, Any] = {}
+        """The panels by id, looked up once when mounted (a panel removed under a reading is drawn to, harmlessly)."""
+        self.main: MainScreen | None = None
+        """The screen the panels sit on and the keys act on (made with the app's first screen)."""
         self._soon = None
         """The frame a burst of readings is waiting for."""
         self._stale = None
         """The frame due when the next reading goes stale."""
-        self._flags_at = -math.inf
 
     # -- layout and life cycle ----------------------------------------------------------
 
+    def get_default_screen(self) -> MainScreen:
+        self.main = MainScreen(id="_default")  # its panels are queried directly, even under a dialog
+        return self.main
+
     def compose(self) -> ComposeResult:
-        yield Static(id="title")
-        yield Static(id="channels")
+        yield TextLine(id="title")
+        yield TextLine(id="channels")
         with Horizontal(id="main"):
-            # Line panels: a reading repaints only the lines whose text changed.
-            yield LinesView(id="readouts")
-            yield LinesView(id="plot")
-        yield Static(id="flags")
-        yield Static(id="history")
-        yield Static(id="events")
-        yield Static(id="message")
+            yield Readouts(id="readouts")
+            yield CurvePanel(id="plot")
+        yield FlagsPanel(id="flags")
+        yield HistoryStrip(id="history", interval=self.history_interval)
+        yield EventsStrip(id="events", stamp=self.stamp)
+        yield MessageLine(id="message")
         yield Static(KEY_HINTS, id="keys")
 
     def on_mount(self) -> None:
-        self.panels = {name: self.query_one(f"#{name}") for name in _PANELS}
+        self.started()
+
+    def started(self) -> None:
+        """The main screen is composed: say hello, draw what needs no model, and fill in after the frame."""
+        self.panels = {
+            w.id: w for w in self.main.query("#title, #channels, #readouts, #plot, #flags, #history, #events, #message")
+        }
         self.panels["plot"].border_title = "breakdown curve"
         about = f" | {self.session.profile.description}" if self.session.profile.description else ""
         self.note(f"{self.mode} on {self.session.profile.label}; '?' for keys and cautions{about}")
@@ -130,6 +140,7 @@ class StrikelineApp(KeyActions, PanelDrawing, App[None]):
             self.logbook_trouble = book.error
             self.note(book.error, error=True)
             self.record_event(book.error)
+        self.panels["events"].draw()
         self._draw_title()
         self._draw_channels()
         self.panels["readouts"].show([Text("working out the forecast...")])
@@ -137,7 +148,7 @@ class StrikelineApp(KeyActions, PanelDrawing, App[None]):
         if self.show_caution:
             from .dialogs import CautionScreen
 
-            self.push_screen(CautionScreen(), self._caution_seen)
+            self.push_screen(CautionScreen(self.caution_marker))
 
     def _fill_in(self) -> None:
         """After the first frame: the forecast (numpy loads here), the curve (plotext), the timers and
@@ -152,14 +163,6 @@ class StrikelineApp(KeyActions, PanelDrawing, App[None]):
         if self.make_source is not None:
             self.source = self.make_source()
             self.source.start()
-
-    def _caution_seen(self, _result=None) -> None:
-        if self.caution_marker is not None:
-            try:
-                self.caution_marker.parent.mkdir(parents=True, exist_ok=True)
-                self.caution_marker.write_text(f"cautions shown {iso_utc(time.time())}\n")
-            except OSError:
-                pass
 
     def leave(self) -> None:
         """Stop drawing and stop the readings' source: the screen is going away."""
@@ -206,16 +209,8 @@ class StrikelineApp(KeyActions, PanelDrawing, App[None]):
         self.record_event(m.text)
 
     def on_replay_note(self, m: ReplayNote) -> None:
-        rec = m.record
-        kind = rec.get("kind")
-        if kind == "strike":
-            self.record_event(
-                f"(replay) strike mark at {rec.get('pressure_Pa', 0):.4g} Pa, {rec.get('voltage_V', 0):.0f} V"
-            )
-        elif kind == "event":
-            self.record_event(f"(replay) {rec.get('port')}: {rec.get('event')} {rec.get('message', '')}")
-        elif kind == "replay-end":
-            self.record_event("replay finished")
+        if (text := m.text()) is not None:
+            self.record_event(text)
 
     def on_logbook_note(self, m: LogbookNote) -> None:
         self.logbook_trouble = m.text
@@ -263,18 +258,90 @@ class StrikelineApp(KeyActions, PanelDrawing, App[None]):
         self.view_ = view
         for pending in view.proposed:
             m = pending.mark
-            text = (
-                f"strike seen: {m.voltage:.0f} V at {pressure_text(m.pressure, self.units)} ({pending.proposal.signal})"
-            )
+            at = pressure_text(m.pressure, self.units)
+            text = f"strike seen: {m.voltage:.0f} V at {at} ({pending.proposal.signal})"
             self.record_event(text)
             self.note(f"{text}: y keeps it as a mark, n drops it", error=True)
         if self.session.bench.composition != fill_before and view.fill_source == "flows":
-            self.plot_stale = True
+            self.panels["plot"].stale = True
             self.record_event(
                 f"gas from the flows: {fill_label(self.session.bench)} (steady state, every gas pumped alike)"
             )
         self._draw_title()
         self._draw_channels()
-        self._draw_readouts(view)
-        self._draw_flags(view, previous)
-        self._draw_events()
+        v = self.session.values
+        convention = self.convention if self.session.alternating else None
+        wide = self.size.width >= 120
+        fill = fill_label(self.session.bench)
+        self.panels["readouts"].draw(view, self.units, self.selected, v, fill, convention, wide)
+        rows = flag_lines(view.forecast, self.units)
+        self.panels["flags"].draw(rows, view.withdrawn if view.forecast is None else None, self.units, now)
+        for text in flag_events(view, previous):
+            self.record_event(text)
+
+    # -- what the panels are told ---------------------------------------------------------
+
+    def note(self, text: str, error: bool = False) -> None:
+        """Say ``text`` on the message line (reversed when it reports an error)."""
+        self.panels["message"].say(text, error)
+
+    def record_event(self, text: str) -> None:
+        """Add a timestamped line to the events strip."""
+        self.panels["events"].add(text)
+
+    @property
+    def events(self) -> deque[str]:
+        """The events said so far (the strip keeps the last 200)."""
+        return self.panels["events"].events
+
+    def readouts_text(self) -> str:
+        """The readouts as plain text (what the operator sees in that panel)."""
+        return self.panels["readouts"].plain
+
+    def _draw_title(self) -> None:
+        facts = title_facts(
+            self.session, self.view_, self.convention, self.units, self.paused, bool(self.logbook_trouble)
+        )
+        self.panels["title"].set_text(facts.text())
+
+    def _draw_channels(self) -> None:
+        s = self.session
+        parts = channel_line(s.latest.all(self.clock()), self.paused, not s.use_gauge, self.mode == "replay", s.labels)
+        faults = []
+        if hasattr(self.source, "stats"):
+            from ...drivers.hub import fault_summary
+
+            faults = fault_summary(self.source.stats())
+        self.panels["channels"].set_text(channels_text(parts, faults))
+
+    def sample_history(self) -> None:
+        """Add the latest pressure and breakdown voltage to the history strip (every heartbeat)."""
+        v = self.view_
+        if v is None or self.paused or not self.live():
+            return
+        f = v.forecast
+        self.panels["history"].sample(v.pressure.value, None if f is None else f.breakdown_voltage, self.units)
+
+    def use_curve(self, cv) -> None:
+        """Forecast with this bench curve from now on (this session)."""
+        self.session.use_curve(cv)
+        self.panels["plot"].stale = True
+        self.record_event(f"bench curve in use: {cv.n_points} strikes, rms {cv.rms_residual:.0f} V")
+        self.refresh_view()
+
+    def redraw_plot(self) -> None:
+        """Redraw the curve if what it shows has moved by a character cell (on its own timer)."""
+        if not self.live():
+            return
+        fill = self.session.bench.composition
+        marks = tuple((m.pressure * m.gap, m.voltage) for m in self.session.strikes if not m.gas or m.gas == fill)
+        s = self.session
+        panel = self.panels["plot"]
+        key_line = panel.draw(s.bench, s.values, self.view_, self.units, not self.no_color, marks)
+        if key_line is not None and panel.border_subtitle != key_line:
+            panel.border_subtitle = key_line
+
+    def said(self, text: str, error: bool) -> None:
+        """Say ``text`` as an event and on the message line (from a worker, through call_from_thread)."""
+        self.record_event(text)
+        self.note(text, error=error)

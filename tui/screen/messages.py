@@ -39,6 +39,18 @@ class ReplayNote(Message):
         super().__init__()
         self.record = record
 
+    def text(self) -> str | None:
+        """The event line it makes (None: nothing to say)."""
+        rec = self.record
+        kind = rec.get("kind")
+        if kind == "strike":
+            return f"(replay) strike mark at {rec.get('pressure_Pa', 0):.4g} Pa, {rec.get('voltage_V', 0):.0f} V"
+        if kind == "event":
+            return f"(replay) {rec.get('port')}: {rec.get('event')} {rec.get('message', '')}"
+        if kind == "replay-end":
+            return "replay finished"
+        return None
+
 
 class LogbookNote(Message):
     """The logbook started or stopped failing (text None: writing again)."""

@@ -1,182 +1,250 @@
-"""What each panel of the live screen shows, drawn: title, status line, readouts, flags, events,
-history and the curve; each widget is updated only when its text changed.
+"""The live screen's panels as widgets, each owning what it shows and when it repaints.
 
-:class:`PanelDrawing` is mixed into :class:`~strikeline.tui.screen.live.StrikelineApp` (it uses the
-screen's Session, panels and settings); when to draw is the screen's (:mod:`~strikeline.tui.screen.pacing`).
+The app composes them and hands each the facts it draws (:mod:`~strikeline.tui.screen.live`); a
+panel keeps its own state (the events it has heard, its history, the picture it last drew) and
+repaints only when its text changed. What the text says is worked out in plain functions
+(:mod:`~strikeline.tui.screen.readouts`, :mod:`~strikeline.tui.text`).
 """
 
 from __future__ import annotations
 
+import time
+from collections import deque
+from collections.abc import Callable
+from dataclasses import dataclass
+
 from rich.text import Text
+from textual.reactive import reactive
+from textual.widgets import Static
 
 from ...model.units import SYSTEMS
-from ..text import fill_label, supply_label
-from .readouts import STYLE, channel_line, flag_lines, flags_text, readout_lines, sparkline
+from .lines_view import LinesView
+from .pacing import HEARTBEAT
+from .readouts import STYLE, flags_text, readout_lines, sparkline
 
-__all__ = ["FLAG_TEXT_INTERVAL", "READOUT_LINES", "PanelDrawing"]
+__all__ = [
+    "FLAG_TEXT_INTERVAL",
+    "READOUT_LINES",
+    "CurvePanel",
+    "EventsStrip",
+    "FlagsPanel",
+    "HistoryStrip",
+    "MessageLine",
+    "Readouts",
+    "TextLine",
+    "TitleFacts",
+    "channels_text",
+    "flag_events",
+    "title_facts",
+]
 
 READOUT_LINES = 13
 FLAG_TEXT_INTERVAL = 1.0
 """s: numbers inside flag reasons refresh this often; levels change at once."""
 
 
-class PanelDrawing:
-    """The live screen's panels, drawn from the Session and the forecast view."""
+class TextLine(Static):
+    """A one-line panel (the title, the status row) that repaints only when its text changes."""
 
-    def _set(self, widget_id: str, content: Text) -> None:
+    def __init__(self, *args, **kwargs) -> None:
+        super().__init__(*args, **kwargs)
+        self._shown_key: str | None = None
+
+    def set_text(self, content: Text) -> None:
         key = content.plain + "|" + "".join(str(s.style) for s in content.spans)
-        if self._shown.get(widget_id) != key:
-            self._shown[widget_id] = key
-            self.panels[widget_id].update(content, layout=False)  # fixed sizes: no relayout
+        if self._shown_key != key:
+            self._shown_key = key
+            self.update(content, layout=False)  # fixed sizes: no relayout
 
-    def note(self, text: str, error: bool = False) -> None:
-        """Say ``text`` on the message line (reversed when it reports an error)."""
-        self.panels["message"].update(Text(text, style="bold reverse" if error else ""))
 
-    def record_event(self, text: str) -> None:
-        """Add a timestamped line to the events strip."""
-        self.events.append(f"{self.stamp()} {text}")
-        self._draw_events()
+@dataclass(frozen=True)
+class TitleFacts:
+    """What the title line says."""
 
-    def _draw_title(self) -> None:
-        b = self.session.bench
-        f = None if self.view_ is None else self.view_.forecast
-        gamma = b.yield_for(b.gas).value if f is None else f.gamma  # the forecast's at its field
+    label: str
+    fill: str
+    cathode: str
+    gamma: float
+    supply: str
+    units: str
+    paused: bool
+    logbook_trouble: bool
+
+    def text(self) -> Text:
         t = Text()
         t.append("strikeline ", style="bold")
-        t.append(f"{self.session.profile.label} | {fill_label(b)} / {b.cathode.symbol} | γ {gamma:.3g}")
-        t.append(f" | {supply_label(b.supply, self.convention)} | {self.units}")
+        t.append(f"{self.label} | {self.fill} / {self.cathode} | γ {self.gamma:.3g}")
+        t.append(f" | {self.supply} | {self.units}")
         if self.paused:
             t.append(" | PAUSED", style="bold reverse")
         if self.logbook_trouble:
             t.append(" | LOGBOOK FAILING", style="bold reverse")
         t.append(" | advisory only")
-        self._set("title", t)
+        return t
 
-    def _draw_channels(self) -> None:
-        readings = self.session.latest.all(self.clock())
-        t = Text()
-        for i, (text, style) in enumerate(
-            channel_line(readings, self.paused, not self.session.use_gauge, self.mode == "replay", self.session.labels)
-        ):
-            if i:
-                t.append(" | ")
-            t.append(text, style=STYLE[style])
-        if hasattr(self.source, "stats"):
-            from ...drivers.hub import fault_summary
 
-            for text in fault_summary(self.source.stats()):  # counted and shown, never taken for values
-                t.append(" | ")
-                t.append(text, style="bold")
-        self._set("channels", t)
+def title_facts(session, view, convention: str, units: str, paused: bool, trouble: bool) -> TitleFacts:
+    """What the title says of this session now."""
+    from ..text import fill_label, supply_label
 
-    def _draw_readouts(self, view) -> None:
-        v = self.session.values
-        convention = self.convention if self.session.alternating else None
-        fill = fill_label(self.session.bench)
-        wide = self.size.width >= 120
-        rows = readout_lines(view, self.units, self.selected, v["gap"], v["voltage"], fill, convention, wide)
+    b = session.bench
+    f = None if view is None else view.forecast
+    gamma = b.yield_for(b.gas).value if f is None else f.gamma  # the forecast's at its field
+    label = session.profile.label
+    return TitleFacts(
+        label, fill_label(b), b.cathode.symbol, gamma, supply_label(b.supply, convention), units, paused, trouble
+    )
+
+
+def channels_text(parts: list[tuple[str, str]], faults: list[str]) -> Text:
+    """The status row: each channel's state, then each port's trouble (counted, never taken for values)."""
+    t = Text()
+    for i, (text, style) in enumerate(parts):
+        if i:
+            t.append(" | ")
+        t.append(text, style=STYLE[style])
+    for text in faults:
+        t.append(" | ")
+        t.append(text, style="bold")
+    return t
+
+
+def flag_events(view, previous) -> list[str]:
+    """The events a new view brings: a flag above ok raised or cleared, the forecast withdrawn or back.
+    The Session works out the changes (and logs them); a withdrawal is one event, not a "cleared" per
+    flag."""
+    out = []
+    if previous is not None and previous.forecast is not None and view.forecast is not None:
+        for change, x in view.flag_changes:
+            if x.level != "ok":
+                out.append(f"flag {x.level.upper()} {x.code}" if change == "raised" else f"flag cleared {x.code}")
+    if (previous is None or previous.withdrawn is None) and view.withdrawn is not None:
+        out.append(f"forecast withdrawn: {view.withdrawn}")
+    elif previous is not None and previous.withdrawn is not None and view.withdrawn is None:
+        out.append("forecast back")
+    return out
+
+
+class MessageLine(Static):
+    """The message line: the last thing said to the operator (reversed when it reports an error)."""
+
+    said: reactive[tuple[str, bool]] = reactive(("", False), layout=False)
+
+    def say(self, text: str, error: bool = False) -> None:
+        self.said = (text, error)
+
+    def watch_said(self, said: tuple[str, bool]) -> None:
+        text, error = said
+        self.update(Text(text, style="bold reverse" if error else ""))
+
+
+class EventsStrip(TextLine):
+    """The last few events, newest first; it keeps the last 200."""
+
+    def __init__(self, *args, stamp: Callable[[], str] | None = None, **kwargs) -> None:
+        super().__init__(*args, **kwargs)
+        self.events: deque[str] = deque(maxlen=200)
+        self.stamp: Callable[[], str] = stamp or (lambda: time.strftime("%H:%M:%S"))
+        """The time an event line is stamped with."""
+
+    def add(self, text: str) -> None:
+        self.events.append(f"{self.stamp()} {text}")
+        self.draw()
+
+    def draw(self) -> None:
+        text = "\n".join(list(self.events)[-3:][::-1]) or "no events yet"
+        self.set_text(Text(text, no_wrap=True, overflow="ellipsis"))
+
+
+class Readouts(LinesView):
+    """The readouts: label and value rows, the selected one marked."""
+
+    def draw(self, view, units: str, selected: str, values: dict, fill: str, convention, wide: bool) -> None:
+        rows = readout_lines(view, units, selected, values["gap"], values["voltage"], fill, convention, wide)
         lines = []
         for label, value, style in rows[:READOUT_LINES]:
             t = Text()
             t.append(f"{label:<12}", style="bold" if label.startswith(">") else "")
             t.append(value, style=STYLE[style])
             lines.append(t)
-        self.panels["readouts"].show(lines)
+        self.show(lines)
 
-    def readouts_text(self) -> str:
-        """The readouts as plain text (what the operator sees in that panel)."""
-        return self.panels["readouts"].plain
 
-    def _draw_flags(self, view, previous) -> None:
-        rows = flag_lines(view.forecast, self.units)
-        levels = (view.withdrawn, self.units, tuple((level, code) for level, code, _ in rows))
-        now = self.clock()
-        if levels == self._flag_levels and now - self._flags_at < FLAG_TEXT_INTERVAL:
-            self._flag_events(view, previous)
+class FlagsPanel(TextLine):
+    """The flags, worst first: levels change at once, the numbers in their sentences once a second."""
+
+    def __init__(self, *args, **kwargs) -> None:
+        super().__init__(*args, **kwargs)
+        self._levels: tuple | None = None
+        self._drawn_at = -float("inf")
+
+    def draw(self, rows: list[tuple[str, str, str]], withdrawn: str | None, units: str, now: float) -> None:
+        levels = (withdrawn, units, tuple((level, code) for level, code, _ in rows))
+        if levels == self._levels and now - self._drawn_at < FLAG_TEXT_INTERVAL:
             return
-        self._flag_levels, self._flags_at = levels, now
-        panel = self.panels["flags"]
-        t, wrapped = flags_text(rows, view.withdrawn if view.forecast is None else None, *panel.size)
-        panel.set_class(wrapped, "-wrapped")  # whole sentences where the rows allow, else one line each
-        self._set("flags", t)
-        self._flag_events(view, previous)
+        self._levels, self._drawn_at = levels, now
+        t, wrapped = flags_text(rows, withdrawn, *self.size)
+        self.set_class(wrapped, "-wrapped")  # whole sentences where the rows allow, else one line each
+        self.set_text(t)
 
-    def _flag_events(self, view, previous) -> None:
-        # The Session works out the changes (and logs them); a withdrawal is one event, not a
-        # "cleared" per flag.
-        if previous is not None and previous.forecast is not None and view.forecast is not None:
-            for change, x in view.flag_changes:
-                if x.level != "ok":
-                    self.record_event(
-                        f"flag {x.level.upper()} {x.code}" if change == "raised" else f"flag cleared {x.code}"
-                    )
-        if (previous is None or previous.withdrawn is None) and view.withdrawn is not None:
-            self.record_event(f"forecast withdrawn: {view.withdrawn}")
-        elif previous is not None and previous.withdrawn is not None and view.withdrawn is None:
-            self.record_event("forecast back")
 
-    def _draw_events(self) -> None:
-        text = "\n".join(list(self.events)[-3:][::-1]) or "no events yet"
-        self._set("events", Text(text, no_wrap=True, overflow="ellipsis"))
+class HistoryStrip(TextLine):
+    """Pressure and breakdown voltage over the last minutes, one sample a heartbeat."""
 
-    def sample_history(self) -> None:
-        """Add the latest pressure and breakdown voltage to the history strip (every heartbeat)."""
-        v = self.view_
-        if v is None or self.paused or not self.live():
-            return
-        self.history_p.append(v.pressure.value)
-        self.history_v.append(None if v.forecast is None else v.forecast.breakdown_voltage)
-        width = max(self.panels["history"].size.width - 34, 10)
-        pu = SYSTEMS[self.units]["pressure"]
-        good = [p for p in self.history_p if p is not None]
-        span = ""
-        if good:
-            from ...model.units import format_value
+    def __init__(self, *args, interval: float = HEARTBEAT, **kwargs) -> None:
+        super().__init__(*args, **kwargs)
+        self.interval = interval
+        """s between samples."""
+        self.pressures: deque[float | None] = deque(maxlen=600)
+        self.voltages: deque[float | None] = deque(maxlen=600)
 
-            span = f" {format_value(min(good), 'pressure', pu)}..{format_value(max(good), 'pressure', pu)}"
+    def sample(self, pressure: float | None, breakdown: float | None, units: str) -> None:
+        self.pressures.append(pressure)
+        self.voltages.append(breakdown)
+        self.draw(units)
+
+    def draw(self, units: str) -> None:
+        from ...model.units import format_value
+
+        width = max(self.size.width - 34, 10)
+        pu = SYSTEMS[units]["pressure"]
+        good = [p for p in self.pressures if p is not None]
+        span = f" {format_value(min(good), 'pressure', pu)}..{format_value(max(good), 'pressure', pu)}" if good else ""
         t = Text(no_wrap=True, overflow="ellipsis")
-        t.append(f"pressure  {sparkline(list(self.history_p), width)}{span}")
-        seconds = len(self.history_p) * self.history_interval
-        t.append(f"\nbreakdown {sparkline(list(self.history_v), width)} last {seconds:.0f} s")
-        self._set("history", t)
+        t.append(f"pressure  {sparkline(list(self.pressures), width)}{span}")
+        seconds = len(self.pressures) * self.interval
+        t.append(f"\nbreakdown {sparkline(list(self.voltages), width)} last {seconds:.0f} s")
+        self.set_text(t)
 
-    def use_curve(self, cv) -> None:
-        """Forecast with this bench curve from now on (this session)."""
-        self.session.use_curve(cv)
-        self.plot_stale = True
-        self.record_event(f"bench curve in use: {cv.n_points} strikes, rms {cv.rms_residual:.0f} V")
-        self.refresh_view()
 
-    def _marks_here(self) -> tuple[tuple[float, float], ...]:
-        """This session's strikes in the gas fill in use, as (pd, V) for the live curve."""
-        fill = self.session.bench.composition
-        return tuple((m.pressure * m.gap, m.voltage) for m in self.session.strikes if not m.gas or m.gas == fill)
+class CurvePanel(LinesView):
+    """The live breakdown curve: redrawn only when what it shows has moved by a character cell."""
 
-    def redraw_plot(self) -> None:
-        """Redraw the curve if what it shows has moved by a character cell (on its own timer)."""
+    def __init__(self, **kwargs) -> None:
+        super().__init__(**kwargs)
+        self.stale = True
+        """The curve must be redrawn even if its inputs look unchanged."""
+        self._key: tuple | None = None
+
+    def draw(self, bench, values: dict, view, units: str, colour: bool, marks) -> str | None:
+        """Redraw if the picture changed; the key line for the border (None: nothing drawn)."""
         from .curve_panel import live_curve
         from .plot import curve_picture, legend
 
-        if not self.live():
-            return
-        plot = self.panels["plot"]
         found = live_curve(
-            self.session.bench,
-            self.session.values,
-            self.view_,
-            self.units,
-            plot.size.width,  # size is the content area, inside the border
-            plot.size.height,
-            colour=not self.no_color,
-            marks=self._marks_here(),
-            known=None if self.plot_stale else self._plot_key,
+            bench,
+            values,
+            view,
+            units,
+            self.size.width,  # size is the content area, inside the border
+            self.size.height,
+            colour=colour,
+            marks=marks,
+            known=None if self.stale else self._key,
         )
         if found is None or found[1] is None:  # too small, or the picture would not change
-            return
+            return None
         key, inputs = found
-        self._plot_key, self.plot_stale = key, False
-        plot.show_ansi(curve_picture(inputs))  # only the lines that changed go to the terminal
-        key_line = legend(inputs, plot.size.width - 4)  # the border keeps a corner, a rule and a space each side
-        if plot.border_subtitle != key_line:
-            plot.border_subtitle = key_line
+        self._key, self.stale = key, False
+        self.show_ansi(curve_picture(inputs))  # only the lines that changed go to the terminal
+        return legend(inputs, self.size.width - 4)  # the border keeps a corner, a rule and a space each side

@@ -155,7 +155,7 @@ async def test_units_help_and_cautions():
 async def test_the_curve_is_drawn():
     app = make_app(load_bench("demo"), manual=True, log=False, show_caution=False)
     async with app.run_test(size=(100, 30)) as pilot:
-        app.plot_stale = True
+        app.query_one("#plot").stale = True
         app.redraw_plot()
         await pilot.pause()
         plot = text_of(app, "plot")
@@ -420,13 +420,13 @@ async def test_a_unit_switch_changes_every_pressure_in_the_flags():
 
 def test_keys_are_declared_once_and_the_help_and_bottom_line_follow():
     # One table (tui/screen/keys.py KEYS) makes the bindings, the bottom line and the help: every
-    # binding has an action the app defines, every bound key is in a help row, every hint is a row's.
+    # binding has an action the main screen defines, every bound key is in a help row, every hint is a row's.
     from strikeline.tui.screen.keys import BINDINGS, HELP_KEYS, KEY_HINTS, KEYS
-    from strikeline.tui.screen.live import StrikelineApp
+    from strikeline.tui.screen.main import MainScreen
 
     assert len(BINDINGS) == sum(len(row.binds) for row in KEYS) and len(HELP_KEYS) == len(KEYS)
     for b in BINDINGS:
-        assert hasattr(StrikelineApp, "action_" + b.action.split("(")[0]), b.action
+        assert hasattr(MainScreen, "action_" + b.action.split("(")[0]), b.action
     keys = [b.key for b in BINDINGS]
     assert len(keys) == len(set(keys))  # no key bound twice
     for row in KEYS:
