@@ -93,7 +93,7 @@ def afterglow_between_pulses(point: OperatingPoint, bench: Bench) -> tuple[After
     chamber."""
     if bench.chamber is None:
         return None, []
-    gas = bench.gas
+    gas = bench.fill.main
     mu = ion_mobility(gas.ion_mobility, point.pressure, point.gas_temperature)
     D_a = ambipolar_diffusion(mu, GLOW_TE_EV, GLOW_TI_EV)
     lam = cylinder_diffusion_length(bench.chamber.radius, bench.chamber.length)

@@ -142,11 +142,6 @@ class Bench:
         """The fill as text ("argon" or "argon:80,oxygen:20")."""
         return self.fill.key
 
-    @property
-    def gas(self) -> Gas:
-        """The fill's largest gas (its data stand for the fill where no mixing rule exists)."""
-        return self.fill.main
-
     def yield_for(self, gas: Gas) -> Yield:
         """The gamma in force for ``gas`` on this bench's cathode: a value set by hand, else the yield
         model's."""

@@ -69,8 +69,8 @@ def _paschen_fill(bench: Bench, cv: BenchCurve):
     stands in as one gas with that one A, B pair and a constant gamma."""
     A, B, gamma = cv.base
     source = f"bench curve fitted {cv.fitted_on} from {cv.n_points} strikes (Paschen's closed form)"
-    c = TownsendConstants(A, B, 0.0, math.inf, bench.gas.constants.reference_temperature, source)
-    gas = replace(bench.gas, constants=c, ionisation=one_segment(c), attachment=None)
+    c = TownsendConstants(A, B, 0.0, math.inf, bench.fill.main.constants.reference_temperature, source)
+    gas = replace(bench.fill.main, constants=c, ionisation=one_segment(c), attachment=None)
     return pure(gas), [Yield(gamma, gamma, gamma, source)]
 
 
@@ -89,7 +89,7 @@ def effective_pressure(p, T: float, bench: Bench):
     omega = _c.e * bench.magnetic_field / _c.m_e
     p = np.asarray(p, dtype=float)
     nu_per_p = sum(c.fraction * c.gas.electron_collision_per_Pa for c in bench.fill.components)
-    nu = nu_per_p * p * bench.gas.constants.reference_temperature / T
+    nu = nu_per_p * p * bench.fill.main.constants.reference_temperature / T
     hall = omega / nu
     p_eff = p * np.sqrt(1.0 + hall * hall)
     return (float(p_eff), float(hall)) if p_eff.ndim == 0 else (p_eff, hall)

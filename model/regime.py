@@ -19,7 +19,7 @@ ARC_SPOT_CURRENT = 1.0
 def normal_glow_data(bench: Bench, v_min: float) -> tuple[float, float | None, float | None, str]:
     """(V_n in V, j_n/p^2 in A m^-2 Pa^-2, pd_n in Pa m, source) for the bench's gas-cathode pair;
     without data, V_n is taken as the Paschen minimum ``v_min`` and the rest is unknown."""
-    row = bench.cathode.normal_glow.get(bench.gas.key)
+    row = bench.cathode.normal_glow.get(bench.fill.main.key)
     if row is None:
         return v_min, None, None, "V_n taken as the Paschen minimum V_min, no normal-glow data for this pair"
     return row.cathode_fall, row.current_density_per_p2, row.pd_n, row.source

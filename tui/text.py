@@ -179,7 +179,7 @@ def fill_label(bench) -> str:
     'Ar 83%+O2 17%'
     """
     if bench.fill.pure:
-        return bench.gas.symbol
+        return bench.fill.main.symbol
     return "+".join(f"{c.gas.symbol} {100 * c.fraction:.2g}%" for c in bench.fill.components)
 
 

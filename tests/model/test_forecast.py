@@ -169,7 +169,7 @@ def test_magnetron_strikes_only_with_its_field():
     assert f.breakdown_voltage is not None and f.strikes
     # omega_ce / nu_m with omega_ce = e B / m_e (scipy.constants) and nu_m = (nu_m/p) p.
     omega = constants.e * 0.03 / constants.m_e
-    nu = b.gas.electron_collision_per_Pa * 0.5 * b.gas.constants.reference_temperature / 293.0
+    nu = b.fill.main.electron_collision_per_Pa * 0.5 * b.fill.main.constants.reference_temperature / 293.0
     assert f.hall_parameter == pytest.approx(omega / nu)
     assert f.effective_pressure == pytest.approx(0.5 * math.sqrt(1 + (omega / nu) ** 2))
     assert "crossed_field" in _codes(f)

@@ -96,7 +96,7 @@ class CalibrationScreen(ModalScreen["BenchCurve | None"]):
             more = f" ({other} more in another gas fill)" if other else ""
             head = f"{len(marks)} strike marks in {fill} this session{more} (s marks one)."
             text.update(Text(f"{head}\nfit {self.free}: refused: {e}"))
-            scale = s.bench.gas.constants.reference_temperature
+            scale = s.bench.fill.main.constants.reference_temperature
             self.marks = tuple((p * d * scale / t, v) for p, d, v, t in pts)
             self.draw()
             return

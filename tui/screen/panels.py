@@ -89,7 +89,7 @@ def title_facts(session, view, convention: str, units: str, paused: bool, troubl
 
     b = session.bench
     f = None if view is None else view.forecast
-    gamma = b.yield_for(b.gas).value if f is None else f.gamma  # the forecast's at its field
+    gamma = b.yield_for(b.fill.main).value if f is None else f.gamma  # the forecast's at its field
     label = session.profile.label
     return TitleFacts(
         label, fill_label(b), b.cathode.symbol, gamma, supply_label(b.supply, convention), units, paused, trouble

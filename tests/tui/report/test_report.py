@@ -98,8 +98,8 @@ def test_the_report_is_one_self_contained_file_with_every_part(shift, tmp_path, 
     bench = load_bench("demo").bench
     sources = {r[0]: r[2] for r in tables["what"]}
     segments = [v for k, v in sources.items() if k.startswith("argon: alpha/p")]
-    assert segments == [seg.source for seg in bench.gas.ionisation.segments]  # the same sources `gases` prints
-    assert sources["copper in argon: gamma"] == bench.cathode.yield_for(bench.gas).source
+    assert segments == [seg.source for seg in bench.fill.main.ionisation.segments]  # the same sources `gases` prints
+    assert sources["copper in argon: gamma"] == bench.cathode.yield_for(bench.fill.main).source
     # the dropout from 30 to 33 s is a row of the faults table (and a shaded span of the figure)
     assert any(r[2] == "gap" for r in tables["time (UTC)|port or channel"])
 
@@ -131,7 +131,7 @@ def test_the_curve_drawn_is_the_benchs_law_and_the_marks_are_the_logbooks(shift)
     law = dc_law(bench)
     rpd = pd * law.reference_temperature / bench.gas_temperature
     assert np.allclose(v, law.voltage(rpd)[0], rtol=1e-9, equal_nan=True)
-    c = bench.gas.constants
+    c = bench.fill.main.constants
     near = (rpd > 0.8 * law.minimum()[0]) & (rpd < 1.5 * law.minimum()[0])
     closed = c.B * rpd / np.log(c.A * rpd / math.log(1 + 1 / law.gamma))
     assert near.any() and np.allclose(v[near], closed[near], rtol=0.03)

@@ -118,7 +118,7 @@ async def test_bad_input_keeps_the_old_value_and_explains():
         assert app.session.values["gap"] == before
         await pilot.press("G", *"unobtainium", "enter")
         await pilot.pause()
-        assert "unknown" in text_of(app, "message") and app.session.bench.gas.key == "argon"
+        assert "unknown" in text_of(app, "message") and app.session.bench.fill.main.key == "argon"
 
 
 @pytest.mark.parametrize("size", [(80, 24), (72, 21), (60, 20), (120, 40)])

@@ -56,7 +56,7 @@ def test_bad_typed_input_keeps_the_old_value_and_says_why(session):
     assert session.values["gap"] == pytest.approx(0.025)
     assert "outside" in session.set_value("voltage", "5000 kV")
     assert "gas 'xenonium': unknown" in session.set_gas("xenonium")
-    assert session.bench.gas.key == "argon"
+    assert session.bench.fill.main.key == "argon"
 
 
 def test_typed_pressure_overrides_the_gauge_until_asked_back(session):
