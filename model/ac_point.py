@@ -9,7 +9,8 @@ from __future__ import annotations
 
 from .alternating import ALTERNATING_UNCERTAINTY
 from .bench import OperatingPoint
-from .results import Alternating, Flag, finite_or_none, flag, q
+from .results import Alternating, finite_or_none
+from .sentence import Flag, flag, q
 
 __all__ = ["WAVELENGTH_FRACTION", "ac_result", "not_applicable"]
 

@@ -10,7 +10,8 @@ from __future__ import annotations
 import math
 
 from .bench import Bench, OperatingPoint
-from .results import Afterglow, Flag, flag, q
+from .results import Afterglow
+from .sentence import Flag, flag, q
 
 __all__ = [
     "BESSEL_J0_FIRST_ZERO",

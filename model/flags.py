@@ -16,7 +16,7 @@ from .bench import Bench, BenchCurve
 from .composition import Composition
 from .gas import Gas, UniformFieldLaw
 from .ionisation import TD_PER_V_PER_PA_M
-from .results import Flag, flag, q
+from .sentence import Flag, flag, q
 
 __all__ = [
     "MIXTURE_UNCERTAINTY",

@@ -34,7 +34,8 @@ from .flags import (
 )
 from .reactive import reactive_results
 from .regime import glow_after_ignition
-from .results import Flag, Forecast, finite_or_none
+from .results import Forecast, finite_or_none
+from .sentence import Flag
 from .stray import left_branch_flags, stray_flags, stray_gaps
 
 __all__ = [

@@ -22,7 +22,8 @@ from collections.abc import Mapping
 from . import constants as _c
 from .bench import Bench, OperatingPoint
 from .gas import Film, Gas
-from .results import Charging, Flag, Quantity, TargetMode, flag, q
+from .results import Charging, TargetMode
+from .sentence import Flag, Quantity, flag, q
 
 __all__ = [
     "METAL_ABOVE",

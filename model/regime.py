@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from . import glow
 from .bench import Bench
-from .results import Flag, Quantity, flag, q
+from .sentence import Flag, Quantity, flag, q
 
 __all__ = ["ARC_SPOT_CURRENT", "glow_after_ignition", "normal_glow_data"]
 

@@ -11,7 +11,8 @@ from collections.abc import Callable
 
 from .bench import Bench, OperatingPoint
 from .glow import LoadLine
-from .results import Flag, StrayResult, flag, q
+from .results import StrayResult
+from .sentence import Flag, flag, q
 
 __all__ = ["left_branch_flags", "stray_flags", "stray_gaps"]
 

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import asyncio
 import socket
+import struct
 import threading
 from collections.abc import Sequence
 
@@ -118,3 +119,13 @@ class ModbusDevice:
         if self.silent:
             await asyncio.sleep(self.silence)
         return self.exception
+
+
+def words(fmt: str, value, word_order="big", byte_order="big") -> list[int]:
+    """Registers holding ``value`` packed as struct ``fmt``, laid out as a device with these orders
+    sends them (the layout the Modbus convention and the profile fields describe)."""
+    raw = struct.pack(">" + fmt, value)
+    regs = [raw[i : i + 2] for i in range(0, len(raw), 2)]
+    if word_order == "little":
+        regs.reverse()
+    return [int.from_bytes(r, "big" if byte_order == "big" else "little") for r in regs]

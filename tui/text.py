@@ -8,7 +8,8 @@ from ..drivers.logbook import iso_utc
 from ..model.units import READINGS, SYSTEMS, convert, format_value
 
 if TYPE_CHECKING:
-    from ..model.results import Flag, Forecast, Quantity
+    from ..model.results import Forecast
+    from ..model.sentence import Flag, Quantity
 
 _LEVEL_MARK = {"ok": "ok    ", "watch": "WATCH ", "danger": "DANGER"}
 
@@ -29,7 +30,7 @@ def shown(x: Quantity, system: str) -> str:
     """A flag's quantity in the unit system's units: pressures, pds, fields over pressure and lengths
     the model writes in mm; every other one as the model wrote it.
 
-    >>> from strikeline.model.results import q
+    >>> from strikeline.model.sentence import q
     >>> shown(q(20.0, "pressure", "Pa"), "Torr"), shown(q(0.03, "length", "mm"), "Torr")
     ('150 mTorr', '3 cm')
     >>> shown(q(0.015, "length", "cm"), "Torr"), shown(q(0.6, "pd", "Pa m", bare=True), "mbar")

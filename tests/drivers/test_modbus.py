@@ -6,22 +6,16 @@ checked against the standard library's struct and against pymodbus's own convert
 """
 
 import json
-import math
 import re
-import struct
 from pathlib import Path
 
 import pytest
-from fake_modbus import ModbusDevice
+from fake_modbus import ModbusDevice, words
 from fakes import NullModem, wait_for
-from hypothesis import given
-from hypothesis import strategies as st
-from pymodbus.client import ModbusTcpClient
 from pymodbus.constants import ExcCodes
 from strikeline.drivers.hub import Instruments
-from strikeline.drivers.modbus_codec import MAX_REGISTERS, decode, plan_reads
+from strikeline.drivers.modbus_codec import plan_reads
 from strikeline.drivers.reading import Status
-from strikeline.drivers.specs import ChannelSpec, Register
 from strikeline.profiles.bench import parse_bench
 from strikeline.profiles.fields import ProfileError
 from strikeline.tui import cli
@@ -91,16 +85,6 @@ labels = {{ "0" = "open", "1" = "closed" }}
 """
 
 
-def words(fmt: str, value, word_order="big", byte_order="big") -> list[int]:
-    """Registers holding ``value`` packed as struct ``fmt``, laid out as a device with these orders
-    sends them (the layout the Modbus convention and the profile fields describe)."""
-    raw = struct.pack(">" + fmt, value)
-    regs = [raw[i : i + 2] for i in range(0, len(raw), 2)]
-    if word_order == "little":
-        regs.reverse()
-    return [int.from_bytes(r, "big" if byte_order == "big" else "little") for r in regs]
-
-
 def fill(dev: ModbusDevice, pressure_mbar=1.5e-2, status=0, volts=-650, micro_amps=123456, sccm=20.0, closed=1):
     dev.set("input", 0, words("f", pressure_mbar))
     dev.set("input", 2, [status])
@@ -134,80 +118,6 @@ class Sink:
 
     def last(self, channel):
         return next((r for r in reversed(self.readings) if r.channel == channel), None)
-
-
-# -- decoding and planning, against outside references ----------------------------------
-
-TYPES = {
-    "int16": ("h", st.integers(-(2**15), 2**15 - 1)),
-    "uint16": ("H", st.integers(0, 2**16 - 1)),
-    "int32": ("i", st.integers(-(2**31), 2**31 - 1)),
-    "uint32": ("I", st.integers(0, 2**32 - 1)),
-    "float32": ("f", st.floats(width=32, allow_nan=False)),
-    "int64": ("q", st.integers(-(2**63), 2**63 - 1)),
-    "uint64": ("Q", st.integers(0, 2**64 - 1)),
-    "float64": ("d", st.floats(allow_nan=False)),
-}
-
-
-@given(
-    st.sampled_from(sorted(TYPES)), st.data(), st.sampled_from(["big", "little"]), st.sampled_from(["big", "little"])
-)
-def test_decode_matches_struct_for_every_type_and_order(dtype, data, word_order, byte_order):
-    fmt, values = TYPES[dtype]
-    value = data.draw(values)
-    got = decode(words(fmt, value, word_order, byte_order), dtype, word_order, byte_order)
-    assert got == float(value) or (math.isinf(value) and got == value)
-
-
-@given(st.sampled_from(["int16", "uint16", "int32", "uint32", "float32", "int64", "uint64", "float64"]), st.data(),
-       st.sampled_from(["big", "little"]))  # fmt: skip
-def test_decode_matches_pymodbus_own_converter(dtype, data, word_order):
-    # pymodbus's convert_from_registers is an independent implementation of the same convention.
-    fmt, values = TYPES[dtype]
-    value = data.draw(values)
-    regs = words(fmt, value, word_order)
-    theirs = ModbusTcpClient.convert_from_registers(
-        regs, getattr(ModbusTcpClient.DATATYPE, dtype.upper()), word_order=word_order
-    )
-    assert decode(regs, dtype, word_order) == pytest.approx(float(theirs), rel=1e-15, abs=0)
-
-
-@given(
-    st.lists(
-        st.tuples(
-            st.sampled_from(["holding", "input"]),
-            st.integers(0, 400),
-            st.sampled_from(["uint16", "float32", "float64"]),
-        ),  # fmt: skip
-        min_size=1,
-        max_size=40,
-    )
-)
-def test_read_plan_covers_every_register_without_reading_a_gap(specs):
-    chans = [ChannelSpec(f"c{i}", "voltage", register=Register(t, a, d)) for i, (t, a, d) in enumerate(specs)]
-    blocks = plan_reads(chans)
-    for c in chans:
-        r = c.register
-        mine = [b for b in blocks if r in b.members]
-        assert len(mine) == 1
-        b = mine[0]
-        assert b.table == r.table and b.start <= r.address and r.address + r.count <= b.start + b.count
-    for b in blocks:
-        assert b.count <= MAX_REGISTERS
-        covered = set()
-        for r in b.members:
-            covered |= set(range(r.address, r.address + r.count))
-        assert covered == set(range(b.start, b.start + b.count))  # no address outside a register is read
-
-
-def test_contiguous_registers_share_one_request():
-    chans = profile_for('transport = "tcp"\nhost = "127.0.0.1"').ports[0].channels
-    got = [(b.table, b.start, b.count) for b in plan_reads(chans)]
-    assert got == [("holding", 10, 3), ("input", 0, 3), ("input", 20, 2), ("discrete", 5, 1)]
-
-
-# -- the driver against pymodbus's server -----------------------------------------------
 
 
 def _check_values(sink):
@@ -439,3 +349,9 @@ async def test_the_live_screen_reads_modbus_and_stays_responsive_through_faults(
     assert '"channel":"argon-flow"' in text and '"status":"sensor_error"' in text
     counts = [json.loads(x) for x in text.splitlines() if '"event":"counts"' in x]
     assert len(counts) == 1 and counts[0]["exceptions"] >= 1 and counts[0]["reconnects"] >= 1
+
+
+def test_contiguous_registers_share_one_request():
+    chans = profile_for('transport = "tcp"\nhost = "127.0.0.1"').ports[0].channels
+    got = [(b.table, b.start, b.count) for b in plan_reads(chans)]
+    assert got == [("holding", 10, 3), ("input", 0, 3), ("input", 20, 2), ("discrete", 5, 1)]

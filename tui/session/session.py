@@ -36,7 +36,8 @@ from .marks import Pending, StrikeMark, StrikeMarks
 from .readinglimits import ReadingLimits
 
 if TYPE_CHECKING:  # the numeric model loads with the first forecast, not with the screen
-    from ...model.results import Flag, Forecast
+    from ...model.results import Forecast
+    from ...model.sentence import Flag
 
 __all__ = ["FIELDS", "PressureNow", "Session", "View"]
 
