@@ -201,3 +201,30 @@ class NullModem:
                     os.close(fd)
                 except OSError:
                     pass
+
+
+class Sink:
+    """What instruments emit, kept for a test: readings and port events (thread-safe)."""
+
+    def __init__(self):
+        self.readings: list = []
+        self.events: list[tuple] = []
+        self.lock = threading.Lock()
+
+    def emit(self, r):
+        with self.lock:
+            self.readings.append(r)
+
+    def event(self, *a):
+        with self.lock:
+            self.events.append(a)
+
+    def of(self, channel, status=None):
+        """The readings of ``channel`` (with ``status`` if given), oldest first."""
+        with self.lock:
+            return [r for r in self.readings if r.channel == channel and (status is None or r.status is status)]
+
+    def last(self, channel):
+        """The newest reading of ``channel`` (None: none yet)."""
+        with self.lock:
+            return next((r for r in reversed(self.readings) if r.channel == channel), None)

@@ -11,7 +11,7 @@ from pathlib import Path
 
 import pytest
 from fake_modbus import ModbusDevice, words
-from fakes import NullModem, wait_for
+from fakes import NullModem, Sink, wait_for
 from pymodbus.constants import ExcCodes
 from strikeline.drivers.hub import Instruments
 from strikeline.drivers.modbus_codec import plan_reads
@@ -104,20 +104,6 @@ def device():
     fill(dev)
     yield dev
     dev.close()
-
-
-class Sink:
-    def __init__(self):
-        self.readings, self.events = [], []
-
-    def emit(self, r):
-        self.readings.append(r)
-
-    def event(self, *a):
-        self.events.append(a)
-
-    def last(self, channel):
-        return next((r for r in reversed(self.readings) if r.channel == channel), None)
 
 
 def _check_values(sink):

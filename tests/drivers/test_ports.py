@@ -8,7 +8,7 @@ import threading
 import time
 
 import pytest
-from fakes import PtyInstrument, TcpInstrument, wait_for
+from fakes import PtyInstrument, Sink, TcpInstrument, wait_for
 from strikeline.drivers.hub import Instruments, Latest
 from strikeline.drivers.port import PortReader
 from strikeline.drivers.reading import Reading, Status
@@ -70,24 +70,6 @@ analog = {{ c = 5.5, k = 1.0, unit = "mbar" }}
 
 def ports_of(text: str, **kw):
     return parse_bench(BENCH + text.format(**kw), "test-bench.toml", None).ports
-
-
-class Sink:
-    def __init__(self):
-        self.readings: list[Reading] = []
-        self.events: list[tuple] = []
-        self.lock = threading.Lock()
-
-    def emit(self, r):
-        with self.lock:
-            self.readings.append(r)
-
-    def event(self, *a):
-        self.events.append(a)
-
-    def of(self, channel, status=None):
-        with self.lock:
-            return [r for r in self.readings if r.channel == channel and (status is None or r.status is status)]
 
 
 @pytest.fixture

@@ -5,7 +5,7 @@ from pathlib import Path
 
 import pytest
 from fake_modbus import free_port
-from fakes import TcpInstrument, wait_for
+from fakes import Sink, TcpInstrument, wait_for
 from strikeline.drivers.hub import Instruments
 from strikeline.drivers.reading import Status
 from strikeline.profiles.bench import parse_bench
@@ -64,20 +64,6 @@ quantity = "voltage"
 query = "MEAS:TEMP?"
 unit = "V"
 """
-
-
-class Sink:
-    def __init__(self):
-        self.readings, self.events = [], []
-
-    def emit(self, r):
-        self.readings.append(r)
-
-    def event(self, *a):
-        self.events.append(a)
-
-    def last(self, channel):
-        return next((r for r in reversed(self.readings) if r.channel == channel), None)
 
 
 def test_values_garbage_and_timeouts_through_a_simulated_visa_resource():
